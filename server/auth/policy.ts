@@ -1,0 +1,100 @@
+import type { RequestHandler, Request } from 'express';
+import { SITE_ROLES, type SiteRole } from '@shared/schemas/common';
+import { forbidden, notFound, unauthorized } from '../lib/errors';
+import type { AppContext } from '../context';
+import { Membership } from '../features/sites/membership.entity';
+import { Site } from '../features/sites/site.entity';
+
+/** How a route finds the site it acts on. */
+export type SiteLocator = (req: Request, ctx: AppContext) => Promise<string | null>;
+
+export type PolicyRule =
+  | { kind: 'public' }
+  | { kind: 'signedIn' }
+  | { kind: 'admin' }
+  | { kind: 'site'; roles: readonly SiteRole[]; locate: SiteLocator }
+  | { kind: 'deny' };
+
+export interface Policy {
+  rule: PolicyRule;
+  middleware: (ctx: AppContext) => RequestHandler;
+}
+
+const bySiteParam: SiteLocator = async (req, ctx) => {
+  const siteId = String(req.params.siteId ?? '');
+  if (!/^[0-9a-f-]{36}$/i.test(siteId)) return null;
+  return (await ctx.ds.getRepository(Site).exists({ where: { id: siteId } })) ? siteId : null;
+};
+
+const anyRole = SITE_ROLES;
+const PUBLIC: PolicyRule = { kind: 'public' };
+const SIGNED_IN: PolicyRule = { kind: 'signedIn' };
+const ADMIN: PolicyRule = { kind: 'admin' };
+const site = (roles: readonly SiteRole[], locate: SiteLocator = bySiteParam): PolicyRule => ({ kind: 'site', roles, locate });
+
+/**
+ * Who may call each route. A route that is not listed here is refused to everyone (deny by
+ * default), and the policy test fails for it. Admins pass every site rule; a site rule answers
+ * 404 to anyone who is not a member, so a site's existence does not leak.
+ */
+export const policyTable: Record<string, PolicyRule> = {
+  'GET /api/health': PUBLIC,
+  'GET /api/openapi.json': PUBLIC,
+
+  'GET /api/auth/csrf': PUBLIC,
+  'POST /api/auth/login': PUBLIC,
+  'POST /api/auth/logout': PUBLIC,
+  'GET /api/auth/me': SIGNED_IN,
+  'POST /api/auth/password/forgot': PUBLIC,
+  'POST /api/auth/password/reset': PUBLIC,
+  'GET /api/invitations/:token': PUBLIC,
+  'POST /api/invitations/accept': PUBLIC,
+
+  'GET /api/crs/:code': SIGNED_IN,
+  'GET /api/sites': SIGNED_IN,
+  'POST /api/sites': SIGNED_IN,
+  'GET /api/sites/:siteId': site(anyRole),
+  'PATCH /api/sites/:siteId': site(['Lead']),
+
+  'GET /api/sites/:siteId/members': site(anyRole),
+  'POST /api/sites/:siteId/invitations': site(['Lead']),
+  'DELETE /api/sites/:siteId/invitations/:invitationId': site(['Lead']),
+  'PATCH /api/sites/:siteId/members/:userId': site(['Lead']),
+  'DELETE /api/sites/:siteId/members/:userId': site(['Lead']),
+
+  'GET /api/admin/users': ADMIN,
+  'POST /api/admin/users': ADMIN,
+  'PATCH /api/admin/users/:userId': ADMIN,
+  'POST /api/admin/users/:userId/reset': ADMIN,
+  'GET /api/admin/outbox': ADMIN,
+  'DELETE /api/admin/outbox': ADMIN,
+};
+
+function middlewareFor(rule: PolicyRule): (ctx: AppContext) => RequestHandler {
+  return (ctx) => async (req, _res, next) => {
+    if (rule.kind === 'public') return next();
+    if (rule.kind === 'deny') throw forbidden('This route has no access policy');
+    const user = req.user;
+    if (!user) throw unauthorized();
+    if (rule.kind === 'signedIn') return next();
+    if (rule.kind === 'admin') {
+      if (!user.isAdmin) throw forbidden('Only an instance administrator can do this');
+      return next();
+    }
+    const siteId = await rule.locate(req, ctx);
+    if (!siteId) throw notFound('The site');
+    const membership = await ctx.ds.getRepository(Membership).findOne({ where: { siteId, userId: user.id } });
+    if (!membership && !user.isAdmin) throw notFound('The site');
+    const role = membership?.role ?? null;
+    if (!user.isAdmin && !rule.roles.includes(role as SiteRole)) {
+      throw forbidden(`This needs the ${rule.roles.join(' or ')} role on this site; you are ${role}`);
+    }
+    req.siteAccess = { siteId, role };
+    next();
+  };
+}
+
+export function policyFor(method: string, path: string): Policy {
+  const rule = policyTable[`${method.toUpperCase()} ${path}`] ?? ({ kind: 'deny' } as const);
+  return { rule, middleware: middlewareFor(rule) };
+}

@@ -1,0 +1,55 @@
+import { z } from 'zod';
+
+const bool = z
+  .enum(['true', 'false', '1', '0', 'yes', 'no'], { error: 'must be true or false' })
+  .transform((v) => v === 'true' || v === '1' || v === 'yes');
+
+const duration = z.coerce.number({ error: 'must be a number of seconds' }).int().positive();
+
+/** Every setting Kfield reads from the environment; defaults are safe for a laptop with no network. */
+export const configSchema = z.object({
+  NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
+  HOST: z.string().default('127.0.0.1'),
+  PORT: z.coerce.number({ error: 'must be a port number' }).int().min(0).max(65535).default(3000),
+  PUBLIC_URL: z.url({ error: 'must be an absolute URL such as http://localhost:3000' }).default('http://localhost:3000'),
+  DATABASE_PATH: z.string().min(1).default('data/kfield.sqlite'),
+  SESSION_SECRET: z.string().min(32, 'must be at least 32 characters').default('kfield-development-secret-change-me-0123456789'),
+  COOKIE_SECURE: bool.default(false),
+  TRUST_PROXY: bool.default(false),
+  SESSION_IDLE_SECONDS: duration.default(8 * 3600),
+  SESSION_ABSOLUTE_SECONDS: duration.default(7 * 24 * 3600),
+  BCRYPT_COST: z.coerce.number().int().min(10, 'must be at least 10').max(15).default(12),
+  LOGIN_MAX_FAILURES: z.coerce.number().int().positive().default(10),
+  LOGIN_WINDOW_SECONDS: duration.default(15 * 60),
+  INVITATION_TTL_HOURS: z.coerce.number().positive().default(72),
+  RESET_TTL_HOURS: z.coerce.number().positive().default(1),
+  SMTP_HOST: z.string().default('127.0.0.1'),
+  SMTP_PORT: z.coerce.number().int().min(0).max(65535).default(2525),
+  SMTP_SECURE: bool.default(false),
+  SMTP_USER: z.string().optional(),
+  SMTP_PASSWORD: z.string().optional(),
+  MAIL_FROM: z.string().default('Kfield <kfield@localhost>'),
+  /** Run the local fake SMTP service inside the app and keep what it receives in the outbox. */
+  FAKE_SMTP: bool.default(true),
+  DEMO_DATA: bool.default(true),
+  CLIENT_DIST: z.string().default('dist/client'),
+});
+
+export type Config = z.infer<typeof configSchema>;
+
+export class ConfigError extends Error {}
+
+/** Parse once at start-up; a bad value stops the process with a readable list. */
+export function loadConfig(env: Record<string, string | undefined> = process.env): Config {
+  const clean = Object.fromEntries(Object.entries(env).filter(([, v]) => v !== undefined && v !== ''));
+  const parsed = configSchema.safeParse(clean);
+  if (!parsed.success) {
+    const lines = parsed.error.issues.map((i) => `  - ${i.path.join('.')}: ${i.message}`);
+    throw new ConfigError(`Kfield cannot start: the configuration is invalid\n${lines.join('\n')}`);
+  }
+  const cfg = parsed.data;
+  if (cfg.NODE_ENV === 'production' && cfg.SESSION_SECRET.startsWith('kfield-development-secret')) {
+    throw new ConfigError('Kfield cannot start: the configuration is invalid\n  - SESSION_SECRET: set a secret of your own in production');
+  }
+  return cfg;
+}

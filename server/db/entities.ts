@@ -1,0 +1,9 @@
+import { SessionRow } from '../auth/session.entity';
+import { PasswordReset } from '../features/auth/password-reset.entity';
+import { OutboxMessage } from '../features/mail/outbox-message.entity';
+import { Invitation } from '../features/members/invitation.entity';
+import { Membership } from '../features/sites/membership.entity';
+import { Site } from '../features/sites/site.entity';
+import { User } from '../features/users/user.entity';
+
+export const entities = [User, SessionRow, Site, Membership, Invitation, PasswordReset, OutboxMessage];
