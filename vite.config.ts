@@ -23,6 +23,7 @@ export default defineConfig({
     projects: [
       {
         extends: true,
+        oxc: { decorator: { legacy: true } },
         test: {
           name: 'unit',
           include: ['tests/unit/**/*.test.{ts,tsx}'],
@@ -31,6 +32,8 @@ export default defineConfig({
       },
       {
         extends: true,
+        // TypeORM entities use legacy decorators (every column type is written out, so no metadata is needed).
+        oxc: { decorator: { legacy: true } },
         test: {
           name: 'api',
           include: ['tests/api/**/*.test.ts'],

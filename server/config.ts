@@ -20,6 +20,7 @@ export const configSchema = z.object({
   SESSION_ABSOLUTE_SECONDS: duration.default(7 * 24 * 3600),
   BCRYPT_COST: z.coerce.number().int().min(10, 'must be at least 10').max(15).default(12),
   LOGIN_MAX_FAILURES: z.coerce.number().int().positive().default(10),
+  LOGIN_MAX_FAILURES_PER_ADDRESS: z.coerce.number().int().positive().default(10),
   LOGIN_WINDOW_SECONDS: duration.default(15 * 60),
   INVITATION_TTL_HOURS: z.coerce.number().positive().default(72),
   RESET_TTL_HOURS: z.coerce.number().positive().default(1),

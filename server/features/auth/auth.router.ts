@@ -49,7 +49,7 @@ function loginLimiters(ctx: AppContext): RequestHandler[] {
     });
   };
   return [
-    rateLimit({ ...common, keyGenerator: (req) => `ip:${ipKeyGenerator(req.ip ?? '')}`, handler: tooMany('from this address') }),
+    rateLimit({ ...common, limit: ctx.config.LOGIN_MAX_FAILURES_PER_ADDRESS, keyGenerator: (req) => `ip:${ipKeyGenerator(req.ip ?? '')}`, handler: tooMany('from this address') }),
     rateLimit({
       ...common,
       keyGenerator: (req) => `acct:${String((req.body as { email?: unknown })?.email ?? '').trim().toLowerCase()}`,
