@@ -1,0 +1,42 @@
+import type { QcFlag } from './flags';
+
+/**
+ * An input the engine cannot work with. `field` is the dotted path of the offending input
+ * (e.g. `geometry.casingRadiusM`), `problem` says what is wrong with it; the message joins both
+ * so it reads on its own in a log, a toast or the command line.
+ */
+export class EngineInputError extends Error {
+  readonly field: string;
+  readonly problem: string;
+
+  constructor(field: string, problem: string) {
+    super(`${field}: ${problem}`);
+    this.name = 'EngineInputError';
+    this.field = field;
+    this.problem = problem;
+  }
+}
+
+/**
+ * The record oscillates, so the overdamped models (Hvorslev, Bouwer-Rice) do not apply
+ * (Butler & Garnett 2000). Fitting it anyway needs `allowOscillation: true`.
+ */
+export class OscillatingResponseError extends Error {
+  readonly field = 'record';
+  readonly flag: QcFlag;
+
+  constructor(flag: QcFlag) {
+    super(`record: ${flag.message} Set allowOscillation to fit it anyway.`);
+    this.name = 'OscillatingResponseError';
+    this.flag = flag;
+  }
+}
+
+export function requirePositive(field: string, value: number): void {
+  if (!Number.isFinite(value)) throw new EngineInputError(field, `must be a finite number (got ${value})`);
+  if (value <= 0) throw new EngineInputError(field, `must be greater than 0 (got ${value})`);
+}
+
+export function requireFinite(field: string, value: number): void {
+  if (!Number.isFinite(value)) throw new EngineInputError(field, `must be a finite number (got ${value})`);
+}

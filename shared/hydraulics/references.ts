@@ -1,0 +1,21 @@
+/** Reference strings carried by every result, so a report names the formula it used. */
+export const REFERENCES = {
+  hvorslevModel: 'Hvorslev (1951), pp. 12–13: H/H0 = exp(−t/T0), T0 the basic time lag',
+  hvorslevFull: 'Hvorslev (1951), Fig. 18 case G, p. 44: K = rc² ln(mL/D + √(1 + (mL/D)²)) / (2 L T0)',
+  hvorslevSimplified: 'Hvorslev (1951), p. 32: K = rc² ln(L/R) / (2 L T0), within 1 % for mL/D > 4',
+  bouwerRice: 'Bouwer & Rice (1976): K = rc² ln(Re/rw) / (2 Le T0)',
+  vanRooy: 'Van Rooy (1988), polynomials for A, B, C as given by Butler (1998)',
+  effectiveCasing: 'Bouwer & Rice (1976); ASTM D5912: rc² → (1 − n) rc² + n rw²',
+  anchoredFit: 'Hvorslev (1951), pp. 12–13: least squares of ln(H/H0) = −t/T0 through the origin',
+  freeFit: 'Bouwer (1989, memory): least squares of ln(H/H0) = a − t/T0; e^a × H0 is the effective H0',
+  recommendedRanges: 'Butler (1998, memory): H/H0 0.15–0.25 for Hvorslev, 0.20–0.30 for Bouwer-Rice',
+  oscillation: 'Butler & Garnett (2000): an oscillating response is outside the overdamped models',
+  doubleStraightLine: 'Bouwer (1989); Butler (2014): concave-upward early data, fit the later segment',
+  expectedH0: 'Butler, McElwee & Liu (1996, memory): measured H0 against slug volume / (π rc²)',
+  repeatTests: 'Butler, McElwee & Liu (1996): repeat tests should give coinciding normalized curves',
+  plausibleK: 'Common practice: K outside 1e−10 … 1e−2 m/s is implausible for a slug test',
+  materialK: 'Freeze & Cherry (1979), Table 2.2',
+  wellK: 'Freeze (1975): K is log-normal, so a well’s K is the geometric mean of its fits',
+  rSquared: 'Common practice: r² below 0.98 on the semi-log line',
+  shapeFactorBias: 'ASTM D5912-20; Zlotnik et al. (2010): shape factors can underestimate K by 25–40 %',
+} as const;
