@@ -44,9 +44,11 @@ export default defineConfig({
       },
       {
         extends: true,
+        oxc: { decorator: { legacy: true } },
         test: {
           name: 'e2e',
           include: ['tests/e2e/**/*.test.ts'],
+          globalSetup: ['tests/e2e/global-setup.ts'],
           environment: 'node',
           testTimeout: 120000,
           hookTimeout: 180000,

@@ -1,5 +1,6 @@
 import fs from 'node:fs';
 import http from 'node:http';
+import net from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
 import type { AddressInfo } from 'node:net';
@@ -80,7 +81,7 @@ export async function startTestServer(env: Record<string, string> = {}, existing
   const mailer = createMailer({ host: '127.0.0.1', port: smtp.port, secure: false, from: config.MAIL_FROM });
   const kfield = createApp({ config, ds, mailer, log: () => undefined });
   const server = http.createServer(kfield.app);
-  await new Promise<void>((r) => server.listen(0, '127.0.0.1', () => r()));
+  await new Promise<void>((r) => server.listen(Number(env.PORT ?? 0), '127.0.0.1', () => r()));
   const baseUrl = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
   const demoSiteId = (await ds.getRepository(Site).findOneByOrFail({ isDemo: true })).id;
   const ts: TestServer = {
@@ -100,6 +101,15 @@ export async function startTestServer(env: Record<string, string> = {}, existing
     },
   };
   return ts;
+}
+
+/** A port that was free a moment ago, so that PUBLIC_URL (links in e-mails) can name it before listening. */
+export async function freePort(): Promise<number> {
+  const srv = net.createServer();
+  await new Promise<void>((r) => srv.listen(0, '127.0.0.1', () => r()));
+  const port = (srv.address() as AddressInfo).port;
+  await new Promise<void>((r) => srv.close(() => r()));
+  return port;
 }
 
 /** The token in the first Kfield link of a message, e.g. /invitations/<token> or ?token=<token>. */
