@@ -1,5 +1,4 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { PasswordReset } from '../../server/features/auth/password-reset.entity';
 import { demoEmail, linkToken, startTestServer, type TestServer } from '../support/test-server';
 
 let ts: TestServer;
