@@ -1,0 +1,118 @@
+import { createBrowserRouter, data, redirect, type LoaderFunctionArgs, type RouteObject } from 'react-router-dom';
+import type { QueryClient } from '@tanstack/react-query';
+import { LoadingBlock } from '@/components/ui/spinner';
+import { meQueryOptions } from '@/features/auth/api';
+import { membersQueryOptions } from '@/features/members/api';
+import { outboxQueryOptions, usersQueryOptions } from '@/features/admin/api';
+import { siteQueryOptions, sitesQueryOptions } from '@/features/sites/api';
+import { safeNextPath, signInPathFor } from '@/lib/safe-next';
+import { AcceptInvitationRoute } from './routes/accept-invitation';
+import { AdminOutboxRoute } from './routes/admin-outbox';
+import { AdminUsersRoute } from './routes/admin-users';
+import { AppShell } from './routes/app-shell';
+import { ForgotPasswordRoute } from './routes/forgot-password';
+import { PublicLayout } from './routes/public-layout';
+import { ResetPasswordRoute } from './routes/reset-password';
+import { RootLayout } from './routes/root';
+import { NotFoundRoute, RootErrorPage, RouteErrorPanel } from './routes/route-error';
+import { SignInRoute } from './routes/sign-in';
+import { SiteMembersRoute } from './routes/site-members';
+import { SiteOverviewRoute } from './routes/site-overview';
+import { SitesRoute } from './routes/sites';
+
+/*
+ * Loaders only decide where a person may go and start fetches early; the screens read the same
+ * queryOptions with useSuspenseQuery, so nothing is fetched twice.
+ */
+export function createRoutes(queryClient: QueryClient): RouteObject[] {
+  const signedInOnly = async ({ request }: LoaderFunctionArgs) => {
+    const me = await queryClient.ensureQueryData(meQueryOptions());
+    if (!me) throw redirect(signInPathFor(new URL(request.url)));
+    return null;
+  };
+
+  const adminOnly = async () => {
+    const me = await queryClient.ensureQueryData(meQueryOptions());
+    if (!me?.isAdmin) throw data('This page is for instance admins.', { status: 403 });
+    return null;
+  };
+
+  const signedOutOnly = async ({ request }: LoaderFunctionArgs) => {
+    const me = await queryClient.ensureQueryData(meQueryOptions());
+    if (me) throw redirect(safeNextPath(new URL(request.url).searchParams.get('next')));
+    return null;
+  };
+
+  const prefetchSite = ({ params }: LoaderFunctionArgs) => {
+    const siteId = params.siteId ?? '';
+    void queryClient.prefetchQuery(siteQueryOptions(siteId));
+    void queryClient.prefetchQuery(membersQueryOptions(siteId));
+    return null;
+  };
+
+  return [
+    {
+      id: 'root',
+      element: <RootLayout />,
+      errorElement: <RootErrorPage />,
+      hydrateFallbackElement: <LoadingBlock label="Starting Kfield…" />,
+      children: [
+        {
+          element: <PublicLayout />,
+          errorElement: <RootErrorPage />,
+          children: [
+            { path: 'sign-in', loader: signedOutOnly, element: <SignInRoute /> },
+            { path: 'forgot-password', element: <ForgotPasswordRoute /> },
+            { path: 'reset-password', element: <ResetPasswordRoute /> },
+            { path: 'invitations/:token', element: <AcceptInvitationRoute /> },
+          ],
+        },
+        {
+          loader: signedInOnly,
+          element: <AppShell />,
+          children: [
+            {
+              errorElement: <RouteErrorPanel />,
+              children: [
+                { index: true, loader: () => {
+                  void queryClient.prefetchQuery(sitesQueryOptions());
+                  return null;
+                }, element: <SitesRoute /> },
+                {
+                  path: 'sites/:siteId',
+                  loader: prefetchSite,
+                  element: <SiteOverviewRoute />,
+                },
+                {
+                  path: 'sites/:siteId/members',
+                  loader: prefetchSite,
+                  element: <SiteMembersRoute />,
+                },
+                {
+                  path: 'admin',
+                  loader: adminOnly,
+                  children: [
+                    { index: true, loader: () => redirect('/admin/users') },
+                    { path: 'users', loader: () => {
+                  void queryClient.prefetchQuery(usersQueryOptions());
+                  return null;
+                }, element: <AdminUsersRoute /> },
+                    { path: 'outbox', loader: () => {
+                  void queryClient.prefetchQuery(outboxQueryOptions());
+                  return null;
+                }, element: <AdminOutboxRoute /> },
+                  ],
+                },
+                { path: '*', element: <NotFoundRoute /> },
+              ],
+            },
+          ],
+        },
+      ],
+    },
+  ];
+}
+
+export function createRouter(queryClient: QueryClient) {
+  return createBrowserRouter(createRoutes(queryClient));
+}
