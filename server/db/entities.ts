@@ -5,5 +5,6 @@ import { Invitation } from '../features/members/invitation.entity';
 import { Membership } from '../features/sites/membership.entity';
 import { Site } from '../features/sites/site.entity';
 import { User } from '../features/users/user.entity';
+import { Well } from '../features/wells/well.entity';
 
-export const entities = [User, SessionRow, Site, Membership, Invitation, PasswordReset, OutboxMessage];
+export const entities = [User, SessionRow, Site, Membership, Invitation, PasswordReset, OutboxMessage, Well];

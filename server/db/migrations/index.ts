@@ -1,4 +1,5 @@
 import { Foundation1764615600000 } from './1764615600000-foundation';
+import { Wells1764616000000 } from './1764616000000-wells';
 
 /** Every committed migration, oldest first. */
-export const migrations = [Foundation1764615600000];
+export const migrations = [Foundation1764615600000, Wells1764616000000];
