@@ -32,6 +32,11 @@ export class OscillatingResponseError extends Error {
   }
 }
 
+/** A computed number for a message: four significant digits, no trailing noise. */
+export function formatNumber(x: number): string {
+  return Number.isFinite(x) ? String(Number(x.toPrecision(4))) : String(x);
+}
+
 export function requirePositive(field: string, value: number): void {
   if (!Number.isFinite(value)) throw new EngineInputError(field, `must be a finite number (got ${value})`);
   if (value <= 0) throw new EngineInputError(field, `must be greater than 0 (got ${value})`);

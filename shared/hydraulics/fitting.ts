@@ -1,4 +1,4 @@
-import { EngineInputError, requireFinite } from './errors';
+import { EngineInputError, formatNumber, requireFinite } from './errors';
 import { REFERENCES } from './references';
 import type { ReducedRecord } from './reduction';
 
@@ -166,7 +166,7 @@ function collect(reduced: ReducedRecord, chosen: ChosenWindow): Collected {
       if (!(hi > 0)) {
         throw new EngineInputError(
           'fit.window',
-          `includes a reading with H/H0 ≤ 0 (t = ${e[i]} s, H/H0 = ${hi}); ln(H/H0) is undefined there, so end the window before the record reaches static`,
+          `includes a reading with H/H0 ≤ 0 (t = ${formatNumber(e[i])} s, H/H0 = ${formatNumber(hi)}); ln(H/H0) is undefined there, so end the window before the record reaches static`,
         );
       }
       t[k] = e[i];
@@ -276,7 +276,7 @@ export function fitLine(reduced: ReducedRecord, options: FitOptions): LineFit {
   }
   const sums = line === 'anchored' ? anchoredLine(t, y) : freeLine(t, y);
   if (!(sums.slope < 0)) {
-    throw new EngineInputError('fit.window', `gives a line that does not fall (slope ${sums.slope} per s): there is no recovery to fit in it`);
+    throw new EngineInputError('fit.window', `gives a line that does not fall (slope ${formatNumber(sums.slope)} per s): there is no recovery to fit in it`);
   }
   const t0Seconds = -1 / sums.slope;
   return {

@@ -1,6 +1,6 @@
 import { STANDARD_GRAVITY } from '../units/pressure';
 import type { UnitOption } from '../units/unit-option';
-import { EngineInputError, requireFinite, requirePositive } from './errors';
+import { EngineInputError, formatNumber, requireFinite, requirePositive } from './errors';
 
 /**
  * What the record's value column measures:
@@ -248,7 +248,7 @@ export function reduceRecord(record: RawRecord, settings: ReductionSettings): Re
   }
   const h0M = displacement[testStartIndex];
   if (!(Math.abs(h0M) > MIN_DISPLACEMENT_M)) {
-    throw new EngineInputError('record', `shows no displacement at the test start (H0 = ${h0M} m); check the static level and the test start`);
+    throw new EngineInputError('record', `shows no displacement at the test start (H0 = ${formatNumber(h0M)} m); check the static level and the test start`);
   }
 
   const testStartSeconds = settings.testStartSeconds ?? t[testStartIndex];
