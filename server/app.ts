@@ -21,6 +21,7 @@ import type { Mailer } from './features/mail/mailer';
 import { membersRoutes } from './features/members/members.router';
 import { sitesRoutes } from './features/sites/sites.router';
 import { adminRoutes } from './features/users/users.router';
+import { wellsRoutes } from './features/wells/wells.router';
 
 export const VERSION = '0.1.0';
 
@@ -114,6 +115,7 @@ export function createApp({ config, ds, mailer, log = (m, e) => console.error(m,
     ...authRoutes(ctx, pp, store),
     ...sitesRoutes(ctx),
     ...membersRoutes(ctx),
+    ...wellsRoutes(ctx),
     ...adminRoutes(ctx, store, auth.sendReset),
   ];
   const routes: MountedRoute[] = [];

@@ -4,6 +4,7 @@ import { forbidden, notFound, unauthorized } from '../lib/errors';
 import type { AppContext } from '../context';
 import { Membership } from '../features/sites/membership.entity';
 import { Site } from '../features/sites/site.entity';
+import { Well } from '../features/wells/well.entity';
 
 /** How a route finds the site it acts on. */
 export type SiteLocator = (req: Request, ctx: AppContext) => Promise<string | null>;
@@ -24,6 +25,14 @@ const bySiteParam: SiteLocator = async (req, ctx) => {
   const siteId = String(req.params.siteId ?? '');
   if (!/^[0-9a-f-]{36}$/i.test(siteId)) return null;
   return (await ctx.ds.getRepository(Site).exists({ where: { id: siteId } })) ? siteId : null;
+};
+
+/** A well's site, from req.params.wellId; null (so 404) when the well does not exist. */
+export const byWell: SiteLocator = async (req, ctx) => {
+  const wellId = String(req.params.wellId ?? '');
+  if (!/^[0-9a-f-]{36}$/i.test(wellId)) return null;
+  const well = await ctx.ds.getRepository(Well).findOne({ where: { id: wellId }, select: { id: true, siteId: true } });
+  return well?.siteId ?? null;
 };
 
 const anyRole = SITE_ROLES;
@@ -61,6 +70,14 @@ export const policyTable: Record<string, PolicyRule> = {
   'DELETE /api/sites/:siteId/invitations/:invitationId': site(['Lead']),
   'PATCH /api/sites/:siteId/members/:userId': site(['Lead']),
   'DELETE /api/sites/:siteId/members/:userId': site(['Lead']),
+
+  'GET /api/sites/:siteId/wells': site(anyRole),
+  'POST /api/sites/:siteId/wells': site(['Lead', 'Analyst']),
+  'GET /api/sites/:siteId/wells.csv': site(anyRole),
+  'POST /api/sites/:siteId/wells/import': site(['Lead', 'Analyst']),
+  'GET /api/wells/:wellId': site(anyRole, byWell),
+  'PATCH /api/wells/:wellId': site(['Lead', 'Analyst'], byWell),
+  'DELETE /api/wells/:wellId': site(['Lead', 'Analyst'], byWell),
 
   'GET /api/admin/users': ADMIN,
   'POST /api/admin/users': ADMIN,

@@ -3,6 +3,7 @@ import type { Router } from 'express';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { policyTable } from '../../server/auth/policy';
 import { routeKey } from '../../server/lib/route';
+import { Well } from '../../server/features/wells/well.entity';
 import { ApiClient, demoEmail, startTestServer, type TestServer } from '../support/test-server';
 
 type Principal = 'anonymous' | 'Viewer' | 'Analyst' | 'Checker' | 'Lead' | 'Admin' | 'outsider';
@@ -11,6 +12,9 @@ const OUTSIDER = 'outsider@demo.kfield.example';
 
 let ts: TestServer;
 const clients = new Map<Principal, ApiClient>();
+let demoWellId = '';
+/** A permitted DELETE removes its well, so each DELETE of a well gets a throwaway copy of a demo well. */
+const spareWellIds: string[] = [];
 
 async function clientFor(p: Principal): Promise<ApiClient> {
   if (p === 'anonymous') return ts.client().refreshCsrf();
@@ -25,6 +29,10 @@ beforeAll(async () => {
   const outsider = await ts.as(OUTSIDER, 'outsider-password-1');
   await outsider.post('/api/sites', { name: 'Another site', epsgCode: 32632, displayUnits: 'SI' }).expect(201);
   for (const p of PRINCIPALS) clients.set(p, p === 'outsider' ? outsider : await clientFor(p));
+  const wells = ts.ds.getRepository(Well);
+  const { id, createdAt: _c, updatedAt: _u, ...template } = await wells.findOneByOrFail({ siteId: ts.demoSiteId });
+  demoWellId = id;
+  for (let i = 0; i < 4 * PRINCIPALS.length; i++) spareWellIds.push((await wells.save(wells.create({ ...template, name: `Policy walk ${i}` }))).id);
 });
 afterAll(async () => ts.close());
 
@@ -46,9 +54,10 @@ function servedRoutes(): string[] {
   return out.filter((k) => k.includes(' /api/'));
 }
 
-function concretePath(path: string): string {
+function concretePath(path: string, method = 'GET'): string {
   return path
     .replace(':siteId', ts.demoSiteId)
+    .replace(':wellId', () => (method.toUpperCase() === 'DELETE' ? (spareWellIds.pop() ?? randomUUID()) : demoWellId))
     .replace(':code', '32632')
     .replace(':token', 'policy-test-token-0000')
     .replace(/:[A-Za-z]+Id/g, () => randomUUID());
@@ -74,7 +83,7 @@ describe('the policy table', () => {
       const rule = policyTable[key];
       for (const p of PRINCIPALS) {
         let c = clients.get(p)!;
-        const r = await c.send(route.method, concretePath(route.path), {});
+        const r = await c.send(route.method, concretePath(route.path, route.method), {});
         if (key === 'POST /api/auth/logout') clients.set(p, (c = await clientFor(p)));
         const s = r.status;
         const denied = s === 401 || s === 403 || isSiteNotFound(s, r.body);
@@ -103,11 +112,13 @@ describe('the policy table', () => {
       'PATCH /api/sites/:siteId': { anonymous: 401, Viewer: 403, Analyst: 403, Checker: 403, Lead: 200, Admin: 200, outsider: 404 },
       'GET /api/admin/users': { anonymous: 401, Viewer: 403, Analyst: 403, Checker: 403, Lead: 403, Admin: 200, outsider: 403 },
       'POST /api/sites/:siteId/invitations': { anonymous: 401, Viewer: 403, Analyst: 403, Checker: 403, Lead: 400, Admin: 400, outsider: 404 },
+      'GET /api/wells/:wellId': { anonymous: 401, Viewer: 200, Analyst: 200, Checker: 200, Lead: 200, Admin: 200, outsider: 404 },
+      'DELETE /api/wells/:wellId': { anonymous: 401, Viewer: 403, Analyst: 204, Checker: 403, Lead: 204, Admin: 204, outsider: 404 },
     };
     for (const [key, want] of Object.entries(matrix)) {
       const [method, path] = key.split(' ');
       for (const p of PRINCIPALS) {
-        const r = await clients.get(p)!.send(method, concretePath(path), method === 'PATCH' ? { description: `set by ${p}` } : {});
+        const r = await clients.get(p)!.send(method, concretePath(path, method), method === 'PATCH' ? { description: `set by ${p}` } : {});
         expect(`${key} as ${p}: ${r.status}`).toBe(`${key} as ${p}: ${want[p]}`);
       }
     }

@@ -6,6 +6,7 @@ import { lookupCrs } from '../../features/sites/crs';
 import { Membership } from '../../features/sites/membership.entity';
 import { Site } from '../../features/sites/site.entity';
 import { User } from '../../features/users/user.entity';
+import { seedDemoWells } from './demo-wells';
 
 /** Everything below is invented for the demo: no real site, person or data. */
 export const DEMO_PASSWORD = 'kfield-demo-pass';
@@ -34,6 +35,7 @@ export async function seedDemoIfEmpty(ds: DataSource, config: Pick<Config, 'BCRY
   const crs = lookupCrs(DEMO_SITE.epsgCode);
   await ds.transaction(async (m) => {
     const site = await m.getRepository(Site).save(m.getRepository(Site).create({ ...DEMO_SITE, crsName: crs?.name ?? `EPSG:${DEMO_SITE.epsgCode}`, isDemo: true }));
+    await seedDemoWells(m, site);
     for (const u of DEMO_USERS) {
       const user = await m.getRepository(User).save(
         m.getRepository(User).create({ email: u.email, name: u.name, isAdmin: u.isAdmin, disabled: false, passwordHash }),

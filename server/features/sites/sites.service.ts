@@ -4,6 +4,7 @@ import type { SiteRole } from '@shared/schemas/common';
 import type { siteBodySchema, sitePatchSchema, Site as SiteDto } from '@shared/schemas/sites';
 import type { AppContext } from '../../context';
 import { badRequest, notFound } from '../../lib/errors';
+import { reexpressSiteWells } from '../wells/wells.service';
 import { lookupCrs } from './crs';
 import { Membership } from './membership.entity';
 import { Site } from './site.entity';
@@ -65,8 +66,13 @@ export function createSitesService({ ds }: AppContext) {
     const site = await sites.findOne({ where: { id: siteId } });
     if (!site) throw notFound('The site');
     if (patch.epsgCode !== undefined) site.crsName = crsOrThrow(patch.epsgCode).name;
+    const reexpress = patch.epsgCode !== undefined && patch.epsgCode !== site.epsgCode;
     Object.assign(site, patch);
-    await sites.save(site);
+    await ds.transaction(async (m) => {
+      // The wells' site coordinates follow the site's system.
+      if (reexpress) await reexpressSiteWells(m, siteId, site.epsgCode);
+      await m.getRepository(Site).save(site);
+    });
     return get(siteId, role);
   }
 
