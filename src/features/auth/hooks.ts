@@ -35,8 +35,9 @@ export function useSignOut() {
   return useMutation({
     mutationFn: logout,
     onSuccess: async () => {
-      // Leave the signed-in screens first, so they do not redirect to sign-in with a ?next= of their own.
-      const leaving = navigate('/sign-in', { replace: true });
+      // Start leaving the signed-in screens first, and commit that at once (flushSync, not a
+      // transition), so the shell sees a navigation under way and does not add a ?next= of its own.
+      const leaving = navigate('/sign-in', { replace: true, flushSync: true });
       queryClient.setQueryData(authKeys.me(), null);
       await leaving;
       queryClient.removeQueries({ predicate: (q) => !isMeQuery(q) });
