@@ -2,6 +2,7 @@ import { createBrowserRouter, data, redirect, type LoaderFunctionArgs, type Rout
 import type { QueryClient } from '@tanstack/react-query';
 import { LoadingBlock } from '@/components/ui/spinner';
 import { meQueryOptions } from '@/features/auth/api';
+import type { Me } from '@shared/schemas/auth';
 import { membersQueryOptions } from '@/features/members/api';
 import { outboxQueryOptions, usersQueryOptions } from '@/features/admin/api';
 import { siteQueryOptions, sitesQueryOptions } from '@/features/sites/api';
@@ -43,12 +44,27 @@ export function createRoutes(queryClient: QueryClient): RouteObject[] {
     return null;
   };
 
-  const prefetchSite = ({ params }: LoaderFunctionArgs) => {
-    const siteId = params.siteId ?? '';
-    void queryClient.prefetchQuery(siteQueryOptions(siteId));
-    void queryClient.prefetchQuery(membersQueryOptions(siteId));
-    return null;
-  };
+  /*
+   * Child loaders run alongside the shell's sign-in check; they wait for it (one shared request)
+   * so a signed-out visitor is not sent a volley of 401s before the redirect.
+   */
+  const prefetchWhenSignedIn =
+    (start: (args: LoaderFunctionArgs, me: Me) => void) =>
+    async (args: LoaderFunctionArgs) => {
+      const me = await queryClient.ensureQueryData(meQueryOptions());
+      if (me) start(args, me);
+      return null;
+    };
+
+  const prefetchSite = prefetchWhenSignedIn(({ params }) => {
+    void queryClient.prefetchQuery(siteQueryOptions(params.siteId ?? ''));
+    void queryClient.prefetchQuery(membersQueryOptions(params.siteId ?? ''));
+  });
+
+  const prefetchForAdmin = (start: () => void) =>
+    prefetchWhenSignedIn((_, me) => {
+      if (me.isAdmin) start();
+    });
 
   return [
     {
@@ -74,10 +90,7 @@ export function createRoutes(queryClient: QueryClient): RouteObject[] {
             {
               errorElement: <RouteErrorPanel />,
               children: [
-                { index: true, loader: () => {
-                  void queryClient.prefetchQuery(sitesQueryOptions());
-                  return null;
-                }, element: <SitesRoute /> },
+                { index: true, loader: prefetchWhenSignedIn(() => void queryClient.prefetchQuery(sitesQueryOptions())), element: <SitesRoute /> },
                 {
                   path: 'sites/:siteId',
                   loader: prefetchSite,
@@ -93,14 +106,8 @@ export function createRoutes(queryClient: QueryClient): RouteObject[] {
                   loader: adminOnly,
                   children: [
                     { index: true, loader: () => redirect('/admin/users') },
-                    { path: 'users', loader: () => {
-                  void queryClient.prefetchQuery(usersQueryOptions());
-                  return null;
-                }, element: <AdminUsersRoute /> },
-                    { path: 'outbox', loader: () => {
-                  void queryClient.prefetchQuery(outboxQueryOptions());
-                  return null;
-                }, element: <AdminOutboxRoute /> },
+                    { path: 'users', loader: prefetchForAdmin(() => void queryClient.prefetchQuery(usersQueryOptions())), element: <AdminUsersRoute /> },
+                    { path: 'outbox', loader: prefetchForAdmin(() => void queryClient.prefetchQuery(outboxQueryOptions())), element: <AdminOutboxRoute /> },
                   ],
                 },
                 { path: '*', element: <NotFoundRoute /> },
