@@ -2,9 +2,9 @@ import { useId, type InputHTMLAttributes, type ReactNode, type Ref, type SelectH
 import { cn } from '@/lib/cn';
 
 const control =
-  'block w-full rounded-md border-0 bg-white px-3 py-2 text-sm text-slate-900 shadow-sm ring-1 ring-inset ' +
+  'block rounded-md border-0 bg-white px-3 py-2 text-sm text-slate-900 shadow-sm ring-1 ring-inset ' +
   'ring-slate-300 placeholder:text-slate-400 focus-visible:outline-2 focus-visible:outline-offset-0 ' +
-  'focus-visible:outline-accent-600 disabled:bg-slate-100 disabled:text-slate-500 ' +
+  'focus-visible:outline-accent-600 disabled:bg-slate-100 disabled:text-slate-500 read-only:bg-slate-50 read-only:text-slate-600 ' +
   'aria-[invalid=true]:ring-red-400';
 
 type FieldFrameProps = {
@@ -66,7 +66,7 @@ export function TextField({
       <input
         id={id}
         ref={ref}
-        className={control}
+        className={cn(control, 'w-full')}
         aria-invalid={error ? true : undefined}
         aria-describedby={describedBy(id, hint, error, extraDescribedBy)}
         {...input}
@@ -93,7 +93,7 @@ export function TextAreaField({
         id={id}
         ref={ref}
         rows={3}
-        className={cn(control, 'resize-y')}
+        className={cn(control, 'w-full resize-y')}
         aria-invalid={error ? true : undefined}
         aria-describedby={describedBy(id, hint, error, extraDescribedBy)}
         {...input}
@@ -120,7 +120,7 @@ export function SelectField({
       <select
         id={id}
         ref={ref}
-        className={cn(control, 'pr-8')}
+        className={cn(control, 'w-full pr-8')}
         aria-invalid={error ? true : undefined}
         aria-describedby={describedBy(id, hint, error, extraDescribedBy)}
         {...select}
@@ -145,7 +145,7 @@ export function InlineSelect({
       <label htmlFor={id} className="sr-only">
         {label}
       </label>
-      <select id={id} ref={ref} className={cn(control, 'h-8 w-auto py-1 pr-8', className)} {...select}>
+      <select id={id} ref={ref} className={cn(control, 'h-8 py-1 pr-8', className)} {...select}>
         {children}
       </select>
     </>

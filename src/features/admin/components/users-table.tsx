@@ -11,7 +11,7 @@ import { adminKeys, sendPasswordReset, updateUser, usersQueryOptions } from '../
 export function UsersTable({ myUserId }: { myUserId: string }) {
   const { data: users } = useSuspenseQuery(usersQueryOptions());
   return (
-    <Table caption="Users" minWidth="min-w-[60rem]">
+    <Table caption="Users" minWidth="min-w-[60rem]" stackOnMobile>
       <thead>
         <tr>
           <Th>Name</Th>
@@ -59,12 +59,16 @@ function UserRow({ user, isMe }: { user: AdminUser; isMe: boolean }) {
 
   return (
     <tr className={user.disabled ? 'bg-slate-50' : undefined}>
-      <Td>
-        <span className="font-medium text-slate-900">{user.name}</span>
-        {isMe ? <span className="ml-2 text-xs text-slate-500">(you)</span> : null}
+      <Td label="Name">
+        <span>
+          <span className="font-medium text-slate-900">{user.name}</span>
+          {isMe ? <span className="ml-2 text-xs text-slate-500">(you)</span> : null}
+        </span>
       </Td>
-      <Td className="break-all">{user.email}</Td>
-      <Td>
+      <Td label="E-mail" className="whitespace-nowrap max-sm:break-all max-sm:whitespace-normal">
+        {user.email}
+      </Td>
+      <Td label="Sites">
         {user.memberships.length > 0 ? (
           <ul className="space-y-0.5">
             {user.memberships.map((m) => (
@@ -77,10 +81,10 @@ function UserRow({ user, isMe }: { user: AdminUser; isMe: boolean }) {
           <span className="text-slate-400">None</span>
         )}
       </Td>
-      <Td className="whitespace-nowrap text-slate-600">
+      <Td label="Last sign-in" className="whitespace-nowrap text-slate-600">
         {user.lastSignInAt ? formatDateTime(user.lastSignInAt) : <span className="text-slate-400">Never</span>}
       </Td>
-      <Td>
+      <Td label="Admin">
         <label className="inline-flex items-center gap-2">
           <input
             type="checkbox"
@@ -96,9 +100,9 @@ function UserRow({ user, isMe }: { user: AdminUser; isMe: boolean }) {
           </span>
         </label>
       </Td>
-      <Td>{user.disabled ? <Badge tone="warning">Disabled</Badge> : <Badge tone="accent">Active</Badge>}</Td>
-      <Td className="text-right">
-        <div className="flex justify-end gap-2">
+      <Td label="Status">{user.disabled ? <Badge tone="warning">Disabled</Badge> : <Badge tone="accent">Active</Badge>}</Td>
+      <Td label="Actions" className="text-right">
+        <div className="flex flex-wrap justify-end gap-2">
           <Button
             variant={user.disabled ? 'secondary' : 'danger'}
             size="sm"
@@ -112,6 +116,8 @@ function UserRow({ user, isMe }: { user: AdminUser; isMe: boolean }) {
           <Button
             variant="secondary"
             size="sm"
+            disabled={user.disabled}
+            title={user.disabled ? 'Enable the account before sending it a reset link' : undefined}
             pending={reset.isPending}
             aria-label={`Send reset link to ${user.name}`}
             onClick={() => reset.mutate()}

@@ -18,7 +18,7 @@ export function InvitationsTable({ siteId }: { siteId: string }) {
     );
   }
   return (
-    <Table caption="Pending invitations">
+    <Table caption="Pending invitations" stackOnMobile>
       <thead>
         <tr>
           <Th>E-mail</Th>
@@ -50,11 +50,15 @@ function InvitationRow({ siteId, invitation }: { siteId: string; invitation: Inv
   });
   return (
     <tr>
-      <Td className="break-all font-medium text-slate-900">{invitation.email}</Td>
-      <Td>{invitation.role}</Td>
-      <Td>{invitation.invitedBy}</Td>
-      <Td className="whitespace-nowrap text-slate-600">{formatDateTime(invitation.expiresAt)}</Td>
-      <Td className="text-right">
+      <Td label="E-mail" className="whitespace-nowrap font-medium text-slate-900 max-sm:break-all max-sm:whitespace-normal">
+        {invitation.email}
+      </Td>
+      <Td label="Role">{invitation.role}</Td>
+      <Td label="Invited by">{invitation.invitedBy}</Td>
+      <Td label="Expires" className="whitespace-nowrap text-slate-600">
+        {formatDateTime(invitation.expiresAt)}
+      </Td>
+      <Td label="Actions" className="text-right">
         <ConfirmButton
           aria-label={`Revoke invitation for ${invitation.email}`}
           question={`Revoke the invitation for ${invitation.email}?`}

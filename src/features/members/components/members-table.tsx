@@ -22,7 +22,7 @@ type Props = {
 export function MembersTable(props: Props) {
   const { data } = useSuspenseQuery(membersQueryOptions(props.siteId));
   return (
-    <Table caption="Site members" minWidth={props.canManage ? 'min-w-[44rem]' : 'min-w-[32rem]'}>
+    <Table caption="Site members" minWidth={props.canManage ? 'min-w-[44rem]' : 'min-w-[32rem]'} stackOnMobile>
       <thead>
         <tr>
           <Th>Name</Th>
@@ -74,17 +74,19 @@ function MemberRow({ member, siteId, canManage, myUserId, onMembershipChanged, o
 
   return (
     <tr>
-      <Td>
-        <span className="font-medium text-slate-900">{member.name}</span>
-        {isMe ? <span className="ml-2 text-xs text-slate-500">(you)</span> : null}
-        {member.disabled ? (
-          <Badge tone="warning" className="ml-2">
-            Account disabled
-          </Badge>
-        ) : null}
+      <Td label="Name">
+        <span>
+          <span className="font-medium text-slate-900">{member.name}</span>
+          {isMe ? <span className="ml-2 text-xs text-slate-500">(you)</span> : null}
+          {member.disabled ? (
+            <Badge tone="warning" className="ml-2">
+              Account disabled
+            </Badge>
+          ) : null}
+        </span>
       </Td>
-      <Td className="break-all">{member.email}</Td>
-      <Td>
+      <Td label="E-mail" className="whitespace-nowrap max-sm:break-all max-sm:whitespace-normal">{member.email}</Td>
+      <Td label="Role">
         {canManage ? (
           <InlineSelect
             label={`Role for ${member.name}`}
@@ -105,9 +107,9 @@ function MemberRow({ member, siteId, canManage, myUserId, onMembershipChanged, o
           <Badge tone={member.role === 'Lead' ? 'accent' : 'neutral'}>{member.role}</Badge>
         )}
       </Td>
-      <Td className="whitespace-nowrap text-slate-600">{formatDate(member.since)}</Td>
+      <Td label="Member since" className="whitespace-nowrap text-slate-600">{formatDate(member.since)}</Td>
       {canManage ? (
-        <Td className="text-right">
+        <Td label="Actions" className="text-right">
           <ConfirmButton
             aria-label={isMe ? 'Leave this site' : `Remove ${member.name}`}
             question={isMe ? 'Leave this site?' : `Remove ${member.name}?`}
