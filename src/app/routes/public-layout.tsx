@@ -25,10 +25,9 @@ export function AuthCard({ title, intro, children }: { title: string; intro?: Re
   useDocumentTitle(title);
   return (
     <section
-      aria-labelledby="auth-title"
       className="w-full max-w-md rounded-xl bg-white px-5 py-6 shadow-sm ring-1 ring-slate-200 sm:px-8 sm:py-8"
     >
-      <h1 id="auth-title" className="text-xl font-semibold tracking-tight text-slate-900">
+      <h1 className="text-xl font-semibold tracking-tight text-slate-900">
         {title}
       </h1>
       {intro ? <div className="mt-2 text-sm text-slate-600">{intro}</div> : null}

@@ -65,7 +65,7 @@ function NewAccountForm({ token, invitation, onAccepted }: FormProps) {
   );
 
   return (
-    <form onSubmit={onSubmit} noValidate className="space-y-5" aria-label="Create your account">
+    <form onSubmit={onSubmit} noValidate className="space-y-5">
       <p className="text-sm text-slate-600">Create your Kfield account to accept.</p>
       <TextField label="E-mail" type="email" value={invitation.email} readOnly autoComplete="username" />
       <TextField label="Your name" autoComplete="name" autoFocus error={errors.name?.message} {...register('name')} />
@@ -117,7 +117,7 @@ function ExistingAccountForm({ token, invitation, onAccepted }: FormProps) {
   );
 
   return (
-    <form onSubmit={onSubmit} noValidate className="space-y-5" aria-label="Sign in to accept">
+    <form onSubmit={onSubmit} noValidate className="space-y-5">
       <p className="text-sm text-slate-600">You already have a Kfield account. Enter its password to accept.</p>
       <TextField label="E-mail" type="email" value={invitation.email} readOnly autoComplete="username" />
       <TextField
@@ -138,7 +138,7 @@ function ExistingAccountForm({ token, invitation, onAccepted }: FormProps) {
 
 /** The title for an error that is about the link itself (unknown, expired, used), or null. */
 export function invitationProblemTitle(error: unknown): string | null {
-  if (!isApiError(error) || (error.status !== 404 && error.status !== 410)) return null;
+  if (!isApiError(error) || ![400, 404, 410].includes(error.status)) return null;
   if (error.code === 'INVITATION_EXPIRED') return 'This invitation has expired';
   if (error.code === 'INVITATION_USED') return 'This invitation has already been used';
   return 'This invitation link is not valid';
@@ -147,7 +147,11 @@ export function invitationProblemTitle(error: unknown): string | null {
 export function InvitationProblem({ title, error }: { title: string; error: unknown }) {
   return (
     <Alert tone="error" title={title}>
-      {isApiError(error) ? <p>{error.message}</p> : null}
+      {isApiError(error) && error.status === 400 ? (
+        <p>Open the link from the e-mail again; it may have been cut short when it was copied.</p>
+      ) : isApiError(error) ? (
+        <p>{error.message}</p>
+      ) : null}
       <p className="mt-2">Ask the site's Lead to send you a new invitation.</p>
     </Alert>
   );

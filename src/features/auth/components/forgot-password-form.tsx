@@ -38,7 +38,7 @@ export function ForgotPasswordForm() {
   );
 
   return (
-    <form onSubmit={onSubmit} noValidate className="space-y-5" aria-label="Request a password reset">
+    <form onSubmit={onSubmit} noValidate className="space-y-5">
       <TextField
         label="E-mail"
         type="email"

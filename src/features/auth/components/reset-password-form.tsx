@@ -50,7 +50,7 @@ export function ResetPasswordForm({ token, onDone }: { token: string; onDone: ()
   );
 
   return (
-    <form onSubmit={onSubmit} noValidate className="space-y-5" aria-label="Choose a new password">
+    <form onSubmit={onSubmit} noValidate className="space-y-5">
       <TextField
         label="New password"
         type="password"

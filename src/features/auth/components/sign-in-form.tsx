@@ -31,7 +31,7 @@ export function SignInForm({ onSignedIn }: { onSignedIn: (user: Me) => void }) {
   );
 
   return (
-    <form onSubmit={onSubmit} noValidate className="space-y-5" aria-label="Sign in">
+    <form onSubmit={onSubmit} noValidate className="space-y-5">
       <TextField
         label="E-mail"
         type="email"

@@ -52,7 +52,7 @@ export function InviteForm({ siteId }: { siteId: string }) {
   const role = watch('role');
 
   return (
-    <form onSubmit={onSubmit} noValidate className="space-y-4" aria-label="Invite a member">
+    <form onSubmit={onSubmit} noValidate className="space-y-4">
       <div className="grid gap-4 sm:grid-cols-[1fr_12rem]">
         <TextField
           label="E-mail address"

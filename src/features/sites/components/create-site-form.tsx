@@ -15,7 +15,6 @@ export function CreateSiteForm({ onCreated, onCancel }: { onCreated: (site: Site
   });
   return (
     <SiteForm
-      ariaLabel="New site"
       defaultValues={emptySiteForm}
       submitLabel="Create site"
       onCancel={onCancel}

@@ -1,3 +1,4 @@
+import type { ReactNode } from 'react';
 import { useQuery } from '@tanstack/react-query';
 import { epsgCodeSchema } from '@shared/schemas/sites';
 import { Spinner } from '@/components/ui/spinner';
@@ -11,7 +12,7 @@ export function CrsLookup({ value, id }: { value: unknown; id: string }) {
   const code = parsed?.success ? parsed.data : null;
   const query = useQuery({ ...crsQueryOptions(code ?? 0), enabled: code !== null });
 
-  let content: React.ReactNode = null;
+  let content: ReactNode = null;
   if (code === null) {
     content = null;
   } else if (query.isPending) {
@@ -26,7 +27,11 @@ export function CrsLookup({ value, id }: { value: unknown; id: string }) {
       <span className="text-slate-700">
         <span className="font-medium text-slate-900">{crs.name}</span>
         {crs.unit ? <span className="text-slate-500"> · units: {crs.unit}</span> : null}
-        {crs.area ? <span className="block text-xs text-slate-500">Area of use: {crs.area}</span> : null}
+        {crs.area ? (
+          <span className="line-clamp-2 block text-xs text-slate-500" title={crs.area}>
+            Area of use: {crs.area}
+          </span>
+        ) : null}
       </span>
     );
   }

@@ -15,7 +15,6 @@ export function EditSiteForm({ site, onSaved, onCancel }: { site: Site; onSaved:
   });
   return (
     <SiteForm
-      ariaLabel="Edit site"
       defaultValues={siteToForm(site)}
       submitLabel="Save changes"
       onCancel={onCancel}

@@ -24,10 +24,9 @@ type Props = {
   submitLabel: string;
   onSubmit: (body: SiteFormOutput) => Promise<unknown>;
   onCancel?: () => void;
-  ariaLabel: string;
 };
 
-export function SiteForm({ defaultValues, submitLabel, onSubmit, onCancel, ariaLabel }: Props) {
+export function SiteForm({ defaultValues, submitLabel, onSubmit, onCancel }: Props) {
   const crsStatusId = useId();
   const {
     register,
@@ -54,7 +53,7 @@ export function SiteForm({ defaultValues, submitLabel, onSubmit, onCancel, ariaL
   const unitsError = errors.hydroUnits?.message ?? errors.hydroUnits?.root?.message;
 
   return (
-    <form onSubmit={submit} noValidate className="space-y-5" aria-label={ariaLabel}>
+    <form onSubmit={submit} noValidate className="space-y-5">
       <TextField label="Site name" autoComplete="off" error={errors.name?.message} {...register('name')} />
       <TextAreaField
         label="Description"
@@ -108,7 +107,7 @@ export function SiteForm({ defaultValues, submitLabel, onSubmit, onCancel, ariaL
                   variant="ghost"
                   size="md"
                   className="mt-1.5 px-3"
-                  aria-label={`Remove hydrostratigraphic unit ${index + 1}`}
+                  aria-label={`Remove unit ${index + 1}`}
                   onClick={() => units.remove(index)}
                 >
                   Remove
