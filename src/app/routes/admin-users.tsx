@@ -30,9 +30,13 @@ export function AdminUsersRoute() {
               <div className="max-w-2xl">
                 <CreateUserForm
                   onCancel={() => setCreating(false)}
-                  onCreated={(user) => {
+                  onCreated={(user, linkSent) => {
                     setCreating(false);
-                    toast.success(`Account created for ${user.name}.`);
+                    toast.success(
+                      linkSent
+                        ? `Account created for ${user.name}. A link to choose a password was e-mailed to ${user.email}.`
+                        : `Account created for ${user.name}.`,
+                    );
                   }}
                 />
               </div>

@@ -37,7 +37,6 @@ function SiteOverview({ siteId }: { siteId: string }) {
         title={site.name}
         crumbs={[{ label: 'Sites', to: '/' }, { label: site.name }]}
         description={`EPSG:${site.epsgCode} · ${site.crsName}`}
-        actions={<ButtonLink to={`/sites/${site.id}/members`} variant="secondary">Members</ButtonLink>}
       />
       <div className="grid gap-6 lg:grid-cols-[1fr_20rem]">
         <Card aria-labelledby="site-details-title">
@@ -69,7 +68,7 @@ function SiteOverview({ siteId }: { siteId: string }) {
             )}
           </CardBody>
         </Card>
-        <Card aria-labelledby="site-members-title">
+        <Card aria-labelledby="site-members-title" className="self-start">
           <CardHeader
             titleId="site-members-title"
             title="Members"

@@ -12,7 +12,14 @@ import { adminKeys, createUser } from '../api';
 type Values = z.input<typeof createUserBodySchema>;
 const userFields = fieldsOf<Values>('email', 'name', 'isAdmin', 'password');
 
-export function CreateUserForm({ onCreated, onCancel }: { onCreated: (user: AdminUser) => void; onCancel: () => void }) {
+export function CreateUserForm({
+  onCreated,
+  onCancel,
+}: {
+  /** `linkSent`: no first password was given, so the server e-mailed a reset link. */
+  onCreated: (user: AdminUser, linkSent: boolean) => void;
+  onCancel: () => void;
+}) {
   const queryClient = useQueryClient();
   const {
     register,
@@ -31,11 +38,16 @@ export function CreateUserForm({ onCreated, onCancel }: { onCreated: (user: Admi
   });
 
   const onSubmit = handleSubmit((values) =>
-    mutation.mutateAsync(values).then(onCreated, (error: unknown) => applyServerErrors(error, setError, userFields)),
+    mutation
+      .mutateAsync(values)
+      .then(
+        (user) => onCreated(user, values.password === undefined),
+        (error: unknown) => applyServerErrors(error, setError, userFields),
+      ),
   );
 
   return (
-    <form onSubmit={onSubmit} noValidate className="space-y-4" aria-label="Create user">
+    <form onSubmit={onSubmit} noValidate className="space-y-4">
       <div className="grid gap-4 sm:grid-cols-2">
         <TextField label="Name" autoComplete="off" error={errors.name?.message} {...register('name')} />
         <TextField label="E-mail" type="email" autoComplete="off" error={errors.email?.message} {...register('email')} />
@@ -44,7 +56,7 @@ export function CreateUserForm({ onCreated, onCancel }: { onCreated: (user: Admi
         label="First password (optional)"
         type="password"
         autoComplete="new-password"
-        hint="To hand over in person. Leave it empty and use “Send reset link” so they choose their own."
+        hint="To hand over in person. Leave it empty and Kfield e-mails them a link to choose their own."
         error={errors.password?.message}
         {...register('password', { setValueAs: (v: string) => (v === '' ? undefined : v) })}
       />

@@ -68,7 +68,7 @@ export function Outbox({ selectedId, messageHref, listHref }: { selectedId: stri
 
 function MessageView({ message, listHref }: { message: OutboxMessage; listHref: string }) {
   return (
-    <Card as="article" aria-labelledby="outbox-message-subject" className="min-w-0">
+    <Card as="article" aria-labelledby="outbox-message-subject" className="min-w-0 self-start">
       <CardHeader
         titleId="outbox-message-subject"
         title={message.subject || '(no subject)'}
