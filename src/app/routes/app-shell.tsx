@@ -43,7 +43,7 @@ export function AppShell() {
             <Wordmark />
           </Link>
           <nav aria-label="Main" className="order-last flex w-full flex-wrap items-center gap-1 sm:order-none sm:w-auto">
-            <NavLink to="/" end className={navLink}>
+            <NavLink to="/" end className={() => navLink({ isActive: location.pathname === '/' || siteMatch !== null })}>
               Sites
             </NavLink>
             {me.isAdmin ? (
