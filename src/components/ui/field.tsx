@@ -3,7 +3,7 @@ import { cn } from '@/lib/cn';
 
 const control =
   'block rounded-md border-0 bg-white px-3 py-2 text-sm text-slate-900 shadow-sm ring-1 ring-inset ' +
-  'ring-slate-300 placeholder:text-slate-400 focus-visible:outline-2 focus-visible:outline-offset-0 ' +
+  'ring-slate-300 focus-visible:outline-2 focus-visible:outline-offset-0 ' +
   'focus-visible:outline-accent-600 disabled:bg-slate-100 disabled:text-slate-500 read-only:bg-slate-50 read-only:text-slate-600 ' +
   'aria-[invalid=true]:ring-red-400';
 
