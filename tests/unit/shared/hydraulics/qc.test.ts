@@ -73,6 +73,11 @@ describe('QC flags', () => {
     expect(Math.abs(later.fit.t0Seconds / 60 - 1)).toBeLessThan(0.01);
   });
 
+  it('flags a mild double straight line just past the slope ratio of 1.5', () => {
+    const a = analyzeRecord(input((t) => 0.3 * Math.exp(-t / 10) + 0.7 * Math.exp(-t / 40), { n: 600 }));
+    expect(a.flags.find((f) => f.code === 'concave-upward')?.values.slopeRatio).toBeCloseTo(1.587, 3);
+  });
+
   it('does not flag a straight semi-log record as concave', () => {
     expect(codes(analyzeRecord(input((t) => Math.exp(-t / 30))))).not.toContain('concave-upward');
   });
@@ -84,13 +89,22 @@ describe('QC flags', () => {
     expect(flag?.message).toBe('The window holds 2 reading(s); a line needs at least 3 to be checked.');
   });
 
-  it('flags r² below 0.98', () => {
-    // common practice: r² < 0.98 on the semi-log line
+  it('flags r² below 0.98 and not above it', () => {
+    // common practice: r² < 0.98 on the semi-log line; an anchored line over a curved record
+    const curved = (t: number) => 0.3 * Math.exp(-t / 10) + 0.7 * Math.exp(-t / 40);
+    const low = analyzeRecord({ ...input(curved, { n: 600 }), window: { kind: 'time', fromSeconds: 10, toSeconds: 60 } });
+    const flag = low.flags.find((f) => f.code === 'low-r-squared');
+    expect(flag?.severity).toBe('warning');
+    expect(flag?.values.rSquared).toBeCloseTo(0.9632, 4);
+    const high = analyzeRecord({ ...input(curved, { n: 600 }), window: { kind: 'time', fromSeconds: 0, toSeconds: 30 } });
+    expect(high.fit.rSquared).toBeGreaterThan(0.98);
+    expect(codes(high)).not.toContain('low-r-squared');
+  });
+
+  it('flags a noisy record’s low r²', () => {
     const noise = gaussian(3);
     const a = analyzeRecord({ ...input((t) => Math.exp(-t / 30) * (1 + 0.25 * noise()), { n: 200 }), window: { kind: 'time', fromSeconds: 0, toSeconds: 20 }, allowOscillation: true });
-    const flag = a.flags.find((f) => f.code === 'low-r-squared');
-    expect(flag?.severity).toBe('warning');
-    expect(flag?.values.rSquared).toBeLessThan(0.98);
+    expect(a.flags.find((f) => f.code === 'low-r-squared')?.values.rSquared).toBeLessThan(0.98);
   });
 
   it('flags a window outside the recommended range and not the default one', () => {
@@ -114,9 +128,15 @@ describe('QC flags', () => {
   });
 
   it('flags K outside 1e−10 … 1e−2 m/s and not the usual monitoring-well range', () => {
-    const fast = analyzeRecord({ ...input((t) => Math.exp(-t / 0.005), { dt: 0.001 }), geometry: { ...geometry, casingRadiusM: 0.1 } });
-    expect(fast.k.kMetersPerSecond).toBeGreaterThan(1e-2);
-    expect(codes(fast)).toContain('k-implausible');
+    // common practice: plausible slug-test K 1e−10 … 1e−2 m/s
+    const fast = analyzeRecord(input((t) => Math.exp(-t / 0.05), { dt: 0.0025 }));
+    expect(fast.k.kMetersPerSecond).toBeCloseTo(0.01026, 5);
+    expect(fast.flags.find((f) => f.code === 'k-implausible')?.message).toBe(
+      'K = 1.03e-2 m/s is outside 1.00e-10 … 1.00e-2 m/s, the plausible range for a slug test.',
+    );
+    const justInside = analyzeRecord(input((t) => Math.exp(-t / 0.08), { dt: 0.004 }));
+    expect(justInside.k.kMetersPerSecond).toBeLessThan(1e-2);
+    expect(codes(justInside)).not.toContain('k-implausible');
     // common practice: slug-test K at monitoring wells in unconsolidated sediments, about 1e−8 … 1e−4 m/s
     for (const t0 of [10, 30000]) {
       const usual = analyzeRecord({ ...input((t) => Math.exp(-t / t0), { dt: t0 / 20 }) });
