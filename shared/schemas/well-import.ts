@@ -84,7 +84,13 @@ export const importSettingsSchema = z.object({
   /** Column delimiter; detected from the header line when left out. */
   delimiter: z.enum([',', ';', '\t', '|'], { error: 'Delimiter must be comma, semicolon, tab or vertical bar' }).optional(),
   /** Well field → the header name of the column it comes from. */
-  mapping: z.partialRecord(importFieldSchema, z.string().trim().min(1, 'Choose a column')),
+  mapping: z.partialRecord(importFieldSchema, z.string().trim().min(1, 'Choose a column'), {
+    error: (iss) => {
+      // Unknown keys are reported on the record itself; the issue type does not list that code.
+      const keys = (iss as { code: string; keys?: string[] }).code === 'unrecognized_keys' ? ((iss as { keys?: string[] }).keys ?? []) : null;
+      return keys ? `Unknown well field${keys.length > 1 ? 's' : ''}: ${keys.join(', ')}` : undefined;
+    },
+  }),
   units: z.object({ elevation: lengthUnitSchema, depth: lengthUnitSchema, radius: lengthUnitSchema }),
   screenReference: screenReferenceSchema,
   coordinates: importCoordinatesSchema,

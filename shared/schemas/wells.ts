@@ -61,8 +61,8 @@ export const coordinatesSchema = z.discriminatedUnion(
 );
 export type CoordinatesInput = z.infer<typeof coordinatesSchema>;
 
-/** The well's fields as a user enters them: every length with its own unit. No cross-field checks. */
-export const wellFieldsSchema = z.object({
+/** The well's fields as a user enters them: every length with its own unit. No defaults, no cross-field checks. */
+const wellFieldsBase = z.object({
   name: wellNameSchema,
   coordinates: coordinatesSchema,
   groundElevation: lengthSchema('Ground elevation'),
@@ -83,8 +83,14 @@ export const wellFieldsSchema = z.object({
   saturatedThickness: optionalLengthSchema('Saturated thickness'),
   staticWaterDepth: optionalLengthSchema('Static water depth'),
   staticToScreenBottom: optionalLengthSchema('Static level to screen bottom'),
-  status: wellStatusSchema.default('active'),
-  notes: z.string({ error: 'Notes must be text' }).max(4000, 'Notes must be at most 4000 characters').default(''),
+  status: wellStatusSchema,
+  notes: z.string({ error: 'Notes must be text' }).max(4000, 'Notes must be at most 4000 characters'),
+});
+
+/** A whole well: status and notes may be left out. */
+export const wellFieldsSchema = wellFieldsBase.extend({
+  status: wellFieldsBase.shape.status.default('active'),
+  notes: wellFieldsBase.shape.notes.default(''),
 });
 export type WellFields = z.input<typeof wellFieldsSchema>;
 
@@ -160,7 +166,7 @@ export function checkWellConstruction(v: ConstructionInput, issue: (path: string
     issue('screenBottom', byDepth ? 'Screen bottom must be below the screen top (a greater depth)' : 'Screen bottom must be below the screen top (a lower elevation)');
   }
   if (c.screenTopDepthM < 0) {
-    issue('screenTop', byDepth ? 'Screen top depth cannot be negative: depths are measured down from the ground surface' : `Screen top must be at or below the ground surface (${fmtM(c.screenTopDepthM)} above it)`);
+    issue('screenTop', byDepth ? 'Screen top depth cannot be negative: depths are measured down from the ground surface' : `Screen top must be at or below the ground surface (${fmtM(-c.screenTopDepthM)} above it)`);
   }
   const stickup = c.measuringPointElevationM - c.groundElevationM;
   if (stickup > MP_ABOVE_GROUND_MAX_M || stickup < -MP_BELOW_GROUND_MAX_M) {
@@ -229,7 +235,7 @@ export type WellInputParsed = z.output<typeof wellInputSchema>;
 export const wellFormSchemaFor = (siteUnits: readonly string[]) => wellFieldsSchema.superRefine(refineWell(siteUnits));
 
 /** A change (PATCH): any subset of the fields; the merged well is checked as a whole. */
-export const wellPatchSchema = wellFieldsSchema.partial();
+export const wellPatchSchema = wellFieldsBase.partial();
 export type WellPatch = z.input<typeof wellPatchSchema>;
 
 /** A stored well, in SI: lengths in metres, depths below ground unless named otherwise. */

@@ -57,14 +57,14 @@ export const DEMO_ORIGIN = { easting: 512000, northing: 5290000 };
 /** The sinuous centreline of the invented buried channel, northing offset from the origin (m) at an easting offset u. */
 const channelCentre = (u: number) => 0.45 * u + 90 * Math.sin((2 * Math.PI * u) / 520);
 const channelSlope = (u: number) => 0.45 + 90 * ((2 * Math.PI) / 520) * Math.cos((2 * Math.PI * u) / 520);
-const CHANNEL_HALF_WIDTH_M = 45;
+const CHANNEL_HALF_WIDTH_M = 55;
 
-/** 0 outside the invented channel, 1 on its centreline (a Gaussian across it). */
+/** 0 outside the invented channel, 1 along its middle: a flat-topped profile, exp(−(d/55 m)⁴), across it. */
 export function demoChannelWeight(siteX: number, siteY: number): number {
   const u = siteX - DEMO_ORIGIN.easting;
   const v = siteY - DEMO_ORIGIN.northing;
   const across = Math.abs(v - channelCentre(u)) / Math.sqrt(1 + channelSlope(u) ** 2);
-  return Math.exp(-((across / CHANNEL_HALF_WIDTH_M) ** 2));
+  return Math.exp(-((across / CHANNEL_HALF_WIDTH_M) ** 4));
 }
 
 /**
