@@ -1,3 +1,4 @@
+/// <reference lib="dom" />
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { demoEmail } from '../support/test-server';
