@@ -2,9 +2,12 @@ import { SessionRow } from '../auth/session.entity';
 import { PasswordReset } from '../features/auth/password-reset.entity';
 import { OutboxMessage } from '../features/mail/outbox-message.entity';
 import { Invitation } from '../features/members/invitation.entity';
+import { RecordFile } from '../features/records/record-file.entity';
+import { RecordSeries } from '../features/records/record-series.entity';
+import { RecordEntity } from '../features/records/record.entity';
 import { Membership } from '../features/sites/membership.entity';
 import { Site } from '../features/sites/site.entity';
 import { User } from '../features/users/user.entity';
 import { Well } from '../features/wells/well.entity';
 
-export const entities = [User, SessionRow, Site, Membership, Invitation, PasswordReset, OutboxMessage, Well];
+export const entities = [User, SessionRow, Site, Membership, Invitation, PasswordReset, OutboxMessage, Well, RecordEntity, RecordFile, RecordSeries];

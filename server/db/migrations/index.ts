@@ -1,5 +1,6 @@
 import { Foundation1764615600000 } from './1764615600000-foundation';
 import { Wells1764616000000 } from './1764616000000-wells';
+import { Records1764617000000 } from './1764617000000-records';
 
 /** Every committed migration, oldest first. */
-export const migrations = [Foundation1764615600000, Wells1764616000000];
+export const migrations = [Foundation1764615600000, Wells1764616000000, Records1764617000000];

@@ -1,0 +1,62 @@
+import { RecordFileError } from './errors';
+
+export type TextEncodingName = 'utf-8' | 'utf-16le' | 'utf-16be' | 'windows-1252';
+
+export interface DecodedText {
+  text: string;
+  encoding: TextEncodingName;
+}
+
+/** How much of the start of a file is inspected for binary content. */
+const SNIFF_BYTES = 64 * 1024;
+
+function looksBinary(bytes: Uint8Array): boolean {
+  const n = Math.min(bytes.length, SNIFF_BYTES);
+  let control = 0;
+  for (let i = 0; i < n; i++) {
+    const b = bytes[i];
+    if (b === 0) return true;
+    // Control characters other than tab, line feed, form feed and carriage return.
+    if (b < 32 && b !== 9 && b !== 10 && b !== 12 && b !== 13) control++;
+  }
+  return control > n / 100;
+}
+
+/**
+ * Turns an uploaded file into text. Logger software writes UTF-8, UTF-16 with a byte-order mark
+ * ("Unicode text" from a spreadsheet) or a Windows code page (a degree sign as byte 0xB0); a file
+ * with NUL bytes or many control characters is not a text export at all.
+ */
+export function decodeRecordFile(bytes: Uint8Array, field = 'file'): DecodedText {
+  if (bytes.length === 0) throw new RecordFileError(field, 'is empty (0 bytes)');
+  let encoding: TextEncodingName;
+  let body = bytes;
+  if (bytes.length >= 2 && bytes[0] === 0xff && bytes[1] === 0xfe) {
+    encoding = 'utf-16le';
+    body = bytes.subarray(2);
+  } else if (bytes.length >= 2 && bytes[0] === 0xfe && bytes[1] === 0xff) {
+    encoding = 'utf-16be';
+    body = bytes.subarray(2);
+  } else {
+    if (looksBinary(bytes)) {
+      throw new RecordFileError(field, 'is not a text file (it contains binary data); export the logger data as CSV or text');
+    }
+    if (bytes.length >= 3 && bytes[0] === 0xef && bytes[1] === 0xbb && bytes[2] === 0xbf) body = bytes.subarray(3);
+    encoding = 'utf-8';
+  }
+  let text: string;
+  try {
+    text = new TextDecoder(encoding, { fatal: true }).decode(body);
+  } catch {
+    if (encoding !== 'utf-8') throw new RecordFileError(field, `is not valid ${encoding.toUpperCase()} text`);
+    encoding = 'windows-1252';
+    text = new TextDecoder(encoding).decode(body);
+  }
+  if (encoding !== 'utf-8' && text.includes('\u0000')) {
+    throw new RecordFileError(field, 'is not a text file (it contains binary data); export the logger data as CSV or text');
+  }
+  // Classic Mac line ends: a file with carriage returns and no line feeds.
+  if (text.indexOf('\n') < 0 && text.indexOf('\r') >= 0) text = text.replace(/\r/g, '\n');
+  if (text.trim() === '') throw new RecordFileError(field, 'holds no readings (only blank lines)');
+  return { text, encoding };
+}
