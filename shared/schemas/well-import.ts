@@ -286,3 +286,11 @@ export function rowToWellInput(cells: Partial<Record<ImportField, string>>, sett
   };
   return { input: problems.length ? null : input, problems };
 }
+
+const UNIT_WORDS: Record<string, LengthUnit> = { m: 'm', metre: 'm', metres: 'm', meter: 'm', meters: 'm', cm: 'cm', mm: 'mm', ft: 'ft', feet: 'ft', foot: 'ft', in: 'in', inch: 'in', inches: 'in' };
+
+/** The length unit a header names in brackets, e.g. "Screen top (ft bgs)" → ft; undefined when none. */
+export function guessUnit(header: string): LengthUnit | undefined {
+  const m = /[([]\s*([a-z]+)/i.exec(header);
+  return m ? UNIT_WORDS[m[1].toLowerCase()] : undefined;
+}

@@ -6,6 +6,7 @@ import type { Me } from '@shared/schemas/auth';
 import { membersQueryOptions } from '@/features/members/api';
 import { outboxQueryOptions, usersQueryOptions } from '@/features/admin/api';
 import { siteQueryOptions, sitesQueryOptions } from '@/features/sites/api';
+import { wellQueryOptions, wellsQueryOptions } from '@/features/wells/api';
 import { safeNextPath, signInPathFor } from '@/lib/safe-next';
 import { AcceptInvitationRoute } from './routes/accept-invitation';
 import { AdminOutboxRoute } from './routes/admin-outbox';
@@ -20,6 +21,10 @@ import { SignInRoute } from './routes/sign-in';
 import { SiteMembersRoute } from './routes/site-members';
 import { SiteOverviewRoute } from './routes/site-overview';
 import { SitesRoute } from './routes/sites';
+import { SiteWellsRoute } from './routes/site-wells';
+import { WellPageRoute } from './routes/well-page';
+import { NewWellRoute } from './routes/well-new';
+import { WellsImportRoute } from './routes/wells-import';
 
 /*
  * Loaders only decide where a person may go and start fetches early; the screens read the same
@@ -59,6 +64,16 @@ export function createRoutes(queryClient: QueryClient): RouteObject[] {
   const prefetchSite = prefetchWhenSignedIn(({ params }) => {
     void queryClient.prefetchQuery(siteQueryOptions(params.siteId ?? ''));
     void queryClient.prefetchQuery(membersQueryOptions(params.siteId ?? ''));
+  });
+
+  const prefetchWells = prefetchWhenSignedIn(({ params }) => {
+    void queryClient.prefetchQuery(siteQueryOptions(params.siteId ?? ''));
+    void queryClient.prefetchQuery(wellsQueryOptions(params.siteId ?? ''));
+  });
+
+  const prefetchWell = prefetchWhenSignedIn(({ params }) => {
+    void queryClient.prefetchQuery(siteQueryOptions(params.siteId ?? ''));
+    void queryClient.prefetchQuery(wellQueryOptions(params.wellId ?? ''));
   });
 
   const prefetchForAdmin = (start: () => void) =>
@@ -101,6 +116,10 @@ export function createRoutes(queryClient: QueryClient): RouteObject[] {
                   loader: prefetchSite,
                   element: <SiteMembersRoute />,
                 },
+                { path: 'sites/:siteId/wells', loader: prefetchWells, element: <SiteWellsRoute /> },
+                { path: 'sites/:siteId/wells/new', loader: prefetchWells, element: <NewWellRoute /> },
+                { path: 'sites/:siteId/wells/import', loader: prefetchWells, element: <WellsImportRoute /> },
+                { path: 'sites/:siteId/wells/:wellId', loader: prefetchWell, element: <WellPageRoute /> },
                 {
                   path: 'admin',
                   loader: adminOnly,

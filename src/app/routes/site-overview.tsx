@@ -11,6 +11,7 @@ import { MembersSummary } from '@/features/members/components/members-summary';
 import { siteQueryOptions } from '@/features/sites/api';
 import { EditSiteForm } from '@/features/sites/components/edit-site-form';
 import { SiteDetails } from '@/features/sites/components/site-details';
+import { WellsSummary } from '@/features/wells/components/wells-summary';
 import { useDocumentTitle } from '@/lib/use-document-title';
 import { siteErrorRenderer } from './site-boundary';
 
@@ -68,22 +69,40 @@ function SiteOverview({ siteId }: { siteId: string }) {
             )}
           </CardBody>
         </Card>
-        <Card aria-labelledby="site-members-title" className="self-start">
-          <CardHeader
-            titleId="site-members-title"
-            title="Members"
-            actions={
-              <ButtonLink to={`/sites/${site.id}/members`} variant="ghost" size="sm">
-                {canManage ? 'Manage members' : 'All members'}
-              </ButtonLink>
-            }
-          />
-          <CardBody>
-            <QueryBoundary loadingLabel="Loading members…" errorTitle="The members could not be loaded">
-              <MembersSummary siteId={site.id} />
-            </QueryBoundary>
-          </CardBody>
-        </Card>
+        <div className="space-y-6 self-start">
+          <Card aria-labelledby="site-wells-title">
+            <CardHeader
+              titleId="site-wells-title"
+              title="Monitoring wells"
+              actions={
+                <ButtonLink to={`/sites/${site.id}/wells`} variant="ghost" size="sm">
+                  Wells table
+                </ButtonLink>
+              }
+            />
+            <CardBody>
+              <QueryBoundary loadingLabel="Loading wells…" errorTitle="The wells could not be loaded">
+                <WellsSummary siteId={site.id} />
+              </QueryBoundary>
+            </CardBody>
+          </Card>
+          <Card aria-labelledby="site-members-title">
+            <CardHeader
+              titleId="site-members-title"
+              title="Members"
+              actions={
+                <ButtonLink to={`/sites/${site.id}/members`} variant="ghost" size="sm">
+                  {canManage ? 'Manage members' : 'All members'}
+                </ButtonLink>
+              }
+            />
+            <CardBody>
+              <QueryBoundary loadingLabel="Loading members…" errorTitle="The members could not be loaded">
+                <MembersSummary siteId={site.id} />
+              </QueryBoundary>
+            </CardBody>
+          </Card>
+        </div>
       </div>
     </>
   );
