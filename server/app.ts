@@ -18,6 +18,7 @@ import { mountRoutes, type MountedRoute, type RouteDef } from './lib/route';
 import { authRoutes } from './features/auth/auth.router';
 import { createAuthService } from './features/auth/auth.service';
 import type { Mailer } from './features/mail/mailer';
+import { fitsRoutes } from './features/fits/fits.router';
 import { membersRoutes } from './features/members/members.router';
 import { sitesRoutes } from './features/sites/sites.router';
 import { adminRoutes } from './features/users/users.router';
@@ -116,6 +117,7 @@ export function createApp({ config, ds, mailer, log = (m, e) => console.error(m,
     ...sitesRoutes(ctx),
     ...membersRoutes(ctx),
     ...wellsRoutes(ctx),
+    ...fitsRoutes(ctx),
     ...adminRoutes(ctx, store, auth.sendReset),
   ];
   const routes: MountedRoute[] = [];

@@ -35,6 +35,22 @@ export const byWell: SiteLocator = async (req, ctx) => {
   return well?.siteId ?? null;
 };
 
+/** A record's site, from req.params.recordId; null (so 404) when the record does not exist. */
+export const byRecord: SiteLocator = async (req, ctx) => {
+  const recordId = String(req.params.recordId ?? '');
+  if (!/^[0-9a-f-]{36}$/i.test(recordId)) return null;
+  const rows: { siteId: string }[] = await ctx.ds.query('SELECT "siteId" FROM "records" WHERE "id" = ?', [recordId]);
+  return rows[0]?.siteId ?? null;
+};
+
+/** A fit's site, from req.params.fitId; null (so 404) when the fit does not exist. */
+export const byFit: SiteLocator = async (req, ctx) => {
+  const fitId = String(req.params.fitId ?? '');
+  if (!/^[0-9a-f-]{36}$/i.test(fitId)) return null;
+  const rows: { siteId: string }[] = await ctx.ds.query('SELECT "siteId" FROM "fits" WHERE "id" = ?', [fitId]);
+  return rows[0]?.siteId ?? null;
+};
+
 const anyRole = SITE_ROLES;
 const PUBLIC: PolicyRule = { kind: 'public' };
 const SIGNED_IN: PolicyRule = { kind: 'signedIn' };
@@ -79,6 +95,20 @@ export const policyTable: Record<string, PolicyRule> = {
   'PATCH /api/wells/:wellId': site(['Lead', 'Analyst'], byWell),
   'DELETE /api/wells/:wellId': site(['Lead', 'Analyst'], byWell),
 
+
+  'GET /api/records/:recordId/reduced': site(anyRole, byRecord),
+  'GET /api/records/:recordId/fits': site(anyRole, byRecord),
+  'POST /api/records/:recordId/fits': site(['Lead', 'Analyst'], byRecord),
+  'GET /api/fits/:fitId': site(anyRole, byFit),
+  'PATCH /api/fits/:fitId': site(['Lead', 'Analyst'], byFit),
+  'POST /api/fits/:fitId/submit': site(['Lead', 'Analyst'], byFit),
+  'POST /api/fits/:fitId/check': site(['Lead', 'Checker'], byFit),
+  'GET /api/fits/:fitId/audit': site(anyRole, byFit),
+  'GET /api/fits/:fitId/revisions': site(anyRole, byFit),
+  'GET /api/wells/:wellId/fits': site(anyRole, byWell),
+  'GET /api/wells/:wellId/k': site(anyRole, byWell),
+  'GET /api/checks': SIGNED_IN,
+
   'GET /api/admin/users': ADMIN,
   'POST /api/admin/users': ADMIN,
   'PATCH /api/admin/users/:userId': ADMIN,
@@ -95,7 +125,7 @@ function middlewareFor(rule: PolicyRule): (ctx: AppContext) => RequestHandler {
     if (!user) throw unauthorized();
     if (rule.kind === 'signedIn') return next();
     if (rule.kind === 'admin') {
-      if (!user.isAdmin) throw forbidden('Only an instance administrator can do this');
+      if (!user.isAdmin) throw forbidden('Only an instance administrator can do this', 'ADMIN_REQUIRED');
       return next();
     }
     const siteId = await rule.locate(req, ctx);
@@ -104,7 +134,7 @@ function middlewareFor(rule: PolicyRule): (ctx: AppContext) => RequestHandler {
     if (!membership && !user.isAdmin) throw notFound('The site');
     const role = membership?.role ?? null;
     if (!user.isAdmin && !rule.roles.includes(role as SiteRole)) {
-      throw forbidden(`This needs the ${rule.roles.join(' or ')} role on this site; you are ${role}`);
+      throw forbidden(`This needs the ${rule.roles.join(' or ')} role on this site; you are ${role}`, 'ROLE_REQUIRED');
     }
     req.siteAccess = { siteId, role };
     next();

@@ -67,7 +67,16 @@ export const fitBodySchema = z.object({
   note: z.string().max(2000, 'Note must be at most 2000 characters').default(''),
 });
 export type FitBody = z.input<typeof fitBodySchema>;
-export const fitPatchSchema = fitBodySchema.partial();
+/** A change to a fit: omitted fields stay; `window: null` returns to the method's default window. */
+export const fitPatchSchema = z.object({
+  method: fitBodySchema.shape.method.optional(),
+  line: z.enum(FIT_LINE_IDS, { error: 'Line must be anchored or free' }).optional(),
+  window: fitWindowSchema.nullable().optional(),
+  geometry: fitGeometrySchema.partial().optional(),
+  options: z.object({ allowOscillation: z.boolean().default(false), material: z.string().max(60).optional() }).optional(),
+  note: z.string().max(2000, 'Note must be at most 2000 characters').optional(),
+});
+export type FitPatch = z.input<typeof fitPatchSchema>;
 
 export const qcFlagSchema = z.object({
   code: z.string(),

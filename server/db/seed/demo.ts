@@ -1,6 +1,7 @@
 import type { DataSource } from 'typeorm';
 import type { SiteRole } from '@shared/schemas/common';
 import type { Config } from '../../config';
+import { seedDemoFits } from './demo-fits';
 import { hashPassword } from '../../auth/password';
 import { lookupCrs } from '../../features/sites/crs';
 import { Membership } from '../../features/sites/membership.entity';
@@ -29,7 +30,7 @@ export const DEMO_SITE = {
 };
 
 /** Load the demo scenario into an empty database only; never over real data. */
-export async function seedDemoIfEmpty(ds: DataSource, config: Pick<Config, 'BCRYPT_COST'>): Promise<boolean> {
+export async function seedDemoIfEmpty(ds: DataSource, config: Config): Promise<boolean> {
   if ((await ds.getRepository(User).count()) > 0) return false;
   const passwordHash = await hashPassword(DEMO_PASSWORD, config.BCRYPT_COST);
   const crs = lookupCrs(DEMO_SITE.epsgCode);
@@ -43,5 +44,7 @@ export async function seedDemoIfEmpty(ds: DataSource, config: Pick<Config, 'BCRY
       if (u.role) await m.getRepository(Membership).insert({ siteId: site.id, userId: user.id, role: u.role });
     }
   });
+  // Fits go through the fit service (its own transactions), after the records exist.
+  await seedDemoFits(ds, config);
   return true;
 }

@@ -1,0 +1,60 @@
+import type { DataSource } from 'typeorm';
+import type { Config } from '../../config';
+import { createFitsService, type Actor } from '../../features/fits/fits.service';
+import type { Mailer } from '../../features/mail/mailer';
+import { RecordEntity } from '../../features/records/record.entity';
+import { Site } from '../../features/sites/site.entity';
+import { User } from '../../features/users/user.entity';
+import { Well } from '../../features/wells/well.entity';
+import { AppError } from '../../lib/errors';
+import { DEMO_USERS } from './demo';
+
+/** The demo's fits are invented like the rest: made by the engine from the invented records. */
+const silentMailer: Mailer = { send: async () => undefined, close: () => undefined };
+
+type Plan = 'checked' | 'checked-by-lead' | 'awaiting-check' | 'sent-back' | 'draft';
+// Most wells carry a Checked fit so the map has colour; a few fits stand in every other state.
+const PLANS: Plan[] = ['checked', 'checked', 'checked-by-lead', 'checked', 'awaiting-check', 'checked', 'sent-back', 'checked', 'draft', 'checked'];
+
+/** Fits in every state of the lifecycle, prepared and checked by different demo users. */
+export async function seedDemoFits(ds: DataSource, config: Config): Promise<number> {
+  const site = await ds.getRepository(Site).findOne({ where: { isDemo: true } });
+  if (!site) return 0;
+  const userByRole = async (role: string) => {
+    const email = DEMO_USERS.find((u) => u.role === role)!.email;
+    return ds.getRepository(User).findOneOrFail({ where: { email } });
+  };
+  const [analyst, checker, lead] = await Promise.all([userByRole('Analyst'), userByRole('Checker'), userByRole('Lead')]);
+  const as = (u: User, role: Actor['role']): Actor => ({ user: { id: u.id, email: u.email, name: u.name, isAdmin: false, disabled: false }, role });
+  const svc = createFitsService({ ds, config, mailer: silentMailer });
+
+  const records = await ds.getRepository(RecordEntity).find({ where: { siteId: site.id }, order: { createdAt: 'ASC' } });
+  const wells = new Map((await ds.getRepository(Well).find({ where: { siteId: site.id } })).map((w) => [w.id, w]));
+  records.sort((a, b) => (wells.get(a.wellId)?.name ?? '').localeCompare(wells.get(b.wellId)?.name ?? '') || a.createdAt.getTime() - b.createdAt.getTime());
+
+  let made = 0;
+  for (const [i, record] of records.entries()) {
+    const plan = PLANS[i % PLANS.length];
+    const preparer = plan === 'checked-by-lead' ? as(analyst, 'Analyst') : i % 7 === 3 ? as(lead, 'Lead') : as(analyst, 'Analyst');
+    const reviewer = plan === 'checked-by-lead' || preparer.user.id === checker.id ? as(lead, 'Lead') : as(checker, 'Checker');
+    const method = i % 3 === 2 ? 'bouwer-rice' : 'hvorslev';
+    let fit;
+    try {
+      fit = await svc.create(record.id, preparer, { method, line: 'anchored', geometry: {}, options: { allowOscillation: false }, note: '' });
+    } catch (e) {
+      // The oscillating demo record (and any the overdamped methods refuse) stays unfitted, as it should.
+      if (e instanceof AppError && e.status === 400) continue;
+      throw e;
+    }
+    made++;
+    if (plan === 'draft') continue;
+    await svc.submit(fit.id, preparer);
+    if (plan === 'awaiting-check') continue;
+    if (plan === 'sent-back') {
+      await svc.check(fit.id, reviewer, 'sent-back', 'The early readings curve upward: try a free line over the later segment, and confirm the screen length from the boring log.');
+      continue;
+    }
+    await svc.check(fit.id, plan === 'checked-by-lead' ? as(lead, 'Lead') : reviewer, 'checked', '');
+  }
+  return made;
+}
