@@ -20,6 +20,7 @@ import { createAuthService } from './features/auth/auth.service';
 import type { Mailer } from './features/mail/mailer';
 import { fitsRoutes } from './features/fits/fits.router';
 import { membersRoutes } from './features/members/members.router';
+import { recordsRoutes } from './features/records/records.router';
 import { sitesRoutes } from './features/sites/sites.router';
 import { adminRoutes } from './features/users/users.router';
 import { wellsRoutes } from './features/wells/wells.router';
@@ -117,6 +118,7 @@ export function createApp({ config, ds, mailer, log = (m, e) => console.error(m,
     ...sitesRoutes(ctx),
     ...membersRoutes(ctx),
     ...wellsRoutes(ctx),
+    ...recordsRoutes(ctx),
     ...fitsRoutes(ctx),
     ...adminRoutes(ctx, store, auth.sendReset),
   ];

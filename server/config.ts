@@ -34,6 +34,8 @@ export const configSchema = z.object({
   FAKE_SMTP: bool.default(true),
   DEMO_DATA: bool.default(true),
   CLIENT_DIST: z.string().default('dist/client'),
+  /** Largest logger or barometric file accepted by a record upload, in MB; a larger one gets 413. */
+  RECORD_MAX_UPLOAD_MB: z.coerce.number({ error: 'must be a number of megabytes' }).positive('must be greater than 0').max(2048, 'must be at most 2048').default(100),
 });
 
 export type Config = z.infer<typeof configSchema>;

@@ -95,6 +95,13 @@ export const policyTable: Record<string, PolicyRule> = {
   'PATCH /api/wells/:wellId': site(['Lead', 'Analyst'], byWell),
   'DELETE /api/wells/:wellId': site(['Lead', 'Analyst'], byWell),
 
+  'POST /api/wells/:wellId/records': site(['Lead', 'Analyst'], byWell),
+  'GET /api/wells/:wellId/records': site(anyRole, byWell),
+  'POST /api/records/preview': SIGNED_IN,
+  'GET /api/records/:recordId': site(anyRole, byRecord),
+  'GET /api/records/:recordId/series': site(anyRole, byRecord),
+  'GET /api/records/:recordId/file': site(anyRole, byRecord),
+  'DELETE /api/records/:recordId': site(['Lead', 'Analyst'], byRecord),
 
   'GET /api/records/:recordId/reduced': site(anyRole, byRecord),
   'GET /api/records/:recordId/fits': site(anyRole, byRecord),

@@ -55,6 +55,9 @@ export function buildOpenApi(routes: MountedRoute[], version: string): Json {
       description: `Who may call it: ${security(def)}.`,
       parameters: parameters(def),
       ...(def.body ? { requestBody: { required: true, content: { 'application/json': { schema: schemaOf(def.body, 'input') } } } } : {}),
+      ...(!def.body && def.requestBodies
+        ? { requestBody: { required: true, content: Object.fromEntries(Object.entries(def.requestBodies).map(([media, s]) => [media, { schema: schemaOf(s, 'input') }])) } }
+        : {}),
       responses,
     };
   }

@@ -22,6 +22,11 @@ export interface RouteDef {
   params?: z.ZodType;
   query?: z.ZodType;
   body?: z.ZodType;
+  /**
+   * Request bodies by media type, for the OpenAPI document only, when the handler reads the body
+   * itself (a multipart upload beside a JSON form).
+   */
+  requestBodies?: Record<string, z.ZodType>;
   /** Status of a successful answer (default 200); 204 sends no body. */
   status?: number;
   responses: Record<number, ResponseDef>;

@@ -3,7 +3,7 @@ import { pascalsPer, WATER_DENSITY_NOMINAL, type PressureUnit } from '../units/p
 import type { TimeColumnFormat } from '../units/time';
 import type { TimestampLayout } from '../units/timestamp';
 import { parseDecimal } from './number';
-import { columnNames, namesFromLine } from './parse';
+import { columnNames, namesFromLine, nthLine } from './parse';
 import { countLines, createFieldBounds, fieldText, lineSpans, significantFieldCount, splitFields, type Delimiter, type FieldBounds } from './tokenize';
 import type { ColumnInfo, ColumnKind, ColumnMapping, FileLayout } from './types';
 import { recogniseUnit, unitInName, type RecognisedUnit } from './units';
@@ -183,9 +183,12 @@ const VALUE_NAME = /level|depth|dtw|head|water|wl\b|press|pres\b|lvl|stage|baro|
 const NOT_VALUE_NAME = /temp|°|degc|batt|volt|cond|\bec\b|\bph\b|spc|serial|\bid\b|#|\bno\b|index|record|seq|count|sample/i;
 const DEPTH_NAME = /depth|dtw|below|bgs|btoc|\btoc\b|\bmp\b|to water/i;
 
+/** Rises from reading to reading, but for a few slips (which the parse then reports by line). */
 function increasing(values: number[]): boolean {
-  for (let i = 1; i < values.length; i++) if (!(values[i] > values[i - 1])) return false;
-  return values.length >= 2;
+  const finite = values.filter((v) => v === v);
+  let up = 0;
+  for (let i = 1; i < finite.length; i++) if (finite[i] > finite[i - 1]) up++;
+  return finite.length >= 2 && up >= 0.9 * (finite.length - 1);
 }
 
 function median(values: number[]): number {
@@ -292,9 +295,6 @@ export function detectLayout(text: string, options: { role?: 'record' | 'baromet
       headerLine = nonBlank[i1].line;
     }
   }
-  const preambleEnd = headerLine ?? firstData.line;
-  const preamble = sample.filter((s) => s.line < preambleEnd).map((s) => text.slice(s.start, s.end));
-
   // A footer: non-data lines after the last readings.
   let lastDataLine: number | null = null;
   const tail = totalLines <= sample.length ? [...nonBlank].reverse() : tailSample(text, totalLines, TAIL_LINES).filter((s) => text.slice(s.start, s.end).trim() !== '');
@@ -310,21 +310,52 @@ export function detectLayout(text: string, options: { role?: 'record' | 'baromet
   }
 
   const layout: FileLayout = { delimiter, headerLine, unitsLine, firstDataLine: firstData.line, lastDataLine, decimalComma };
+  const described = describeLayout(text, layout, { role, totalLines });
+  return { ...described, notes: [...notes, ...described.notes] };
+}
+
+/**
+ * Columns, suggested mapping, reference and time zone for a given layout: what detectLayout found,
+ * or one the user chose instead.
+ */
+export function describeLayout(text: string, layout: FileLayout, options: { role?: 'record' | 'barometric'; totalLines?: number } = {}): Detection {
+  const role = options.role ?? 'record';
+  const totalLines = options.totalLines ?? countLines(text);
+  const notes: string[] = [];
+  const bounds = createFieldBounds();
+  const { delimiter, decimalComma } = layout;
+  const preambleEnd = layout.headerLine ?? layout.firstDataLine;
+  const head = lineSpans(text, Math.max(0, preambleEnd - 1));
+  const preamble = head.starts.map((st, i) => text.slice(st, head.ends[i]));
+  const rows = lineSpans(text, 400, nthLine(text, layout.firstDataLine)?.start ?? text.length);
+  const dataSplits: Split[] = [];
+  for (let i = 0; i < rows.starts.length && dataSplits.length < 200; i++) {
+    const line = layout.firstDataLine + i;
+    if (layout.lastDataLine !== null && line > layout.lastDataLine) break;
+    if (text.slice(rows.starts[i], rows.ends[i]).trim() === '') continue;
+    const sp = splitSample(text, { line, start: rows.starts[i], end: rows.ends[i] }, delimiter, bounds);
+    if (sp) dataSplits.push(sp);
+  }
   const names = columnNames(text, layout);
   const count = names.length;
-  const unitsSpan = unitsLine === null ? null : nonBlank.find((s) => s.line === unitsLine)!;
+  const unitsSpan = layout.unitsLine === null ? null : nthLine(text, layout.unitsLine);
   const unitTexts = unitsSpan ? namesFromLine(text, unitsSpan, delimiter, count) : [];
 
   const columns: DetectedColumn[] = [];
   for (let c = 0; c < count; c++) {
-    const values = dataSplits.slice(0, 200).map((s) => s.fields[c] ?? '');
-    const kinds = new Set(dataSplits.slice(0, 200).map((s) => s.kinds[c] ?? 'empty'));
-    kinds.delete('empty');
-    let kind: ColumnKind;
-    if (kinds.size === 0) kind = 'empty';
-    else if ([...kinds].every((k) => k === 'number' || k === 'comma-number')) kind = 'number';
-    else if (kinds.size === 1) kind = [...kinds][0] as ColumnKind;
-    else kind = 'text';
+    const values = dataSplits.map((s) => s.fields[c] ?? '');
+    // The column's kind is what most of its values are: a stray "n/a" does not make it text.
+    const tally = new Map<ColumnKind, number>();
+    let filled = 0;
+    for (const s of dataSplits) {
+      const k = s.kinds[c] ?? 'empty';
+      if (k === 'empty') continue;
+      filled++;
+      const as: ColumnKind = k === 'comma-number' ? (decimalComma ? 'number' : 'text') : k;
+      tally.set(as, (tally.get(as) ?? 0) + 1);
+    }
+    let kind: ColumnKind = filled === 0 ? 'empty' : 'text';
+    for (const [k, n] of tally) if (n >= 0.8 * filled) kind = k;
     const name = names[c];
     const unitText = unitTexts[c] || unitInName(name);
     columns.push({ index: c, name, unitText: unitText || null, kind, unit: recogniseUnit(unitText), samples: values.slice(0, 3) });
@@ -429,5 +460,6 @@ export function detectLayout(text: string, options: { role?: 'record' | 'baromet
   const zone = zoneFromPreamble(preamble);
   if (zone.note) notes.push(zone.note);
 
+  if (dataSplits.length === 0) notes.push(`No readings from line ${layout.firstDataLine} on with this layout.`);
   return { layout, columns, preamble, mapping, valueUnit, reference, timeZone: zone.zone, notes, totalLines };
 }
