@@ -238,7 +238,7 @@ export function ImportWizard({ site, onImported, renderCrsStatus }: { site: Impo
                       {mappedFields.map((f) => (
                         <th key={f} scope="col" className="border-b border-slate-200 bg-slate-50 px-3 py-2 text-xs font-medium whitespace-nowrap text-slate-600">
                           {IMPORT_FIELD_LABELS[f]}
-                          <span className="block font-normal text-slate-400">{mapping[f]}</span>
+                          {mapping[f]!.toLowerCase() !== IMPORT_FIELD_LABELS[f].toLowerCase() ? <span className="block font-normal text-slate-400">{mapping[f]}</span> : null}
                         </th>
                       ))}
                     </tr>
@@ -320,6 +320,12 @@ export function ImportWizard({ site, onImported, renderCrsStatus }: { site: Impo
   );
 }
 
+/** The table has a line column: "Line 4: the name …" → "The name …". */
+function withoutLine(message: string): string {
+  const rest = message.replace(/^Line \d+:? ?/, '');
+  return rest.charAt(0).toUpperCase() + rest.slice(1);
+}
+
 function problemFieldLabel(field: string | null): string {
   if (!field) return 'Whole line';
   const top = field.split('.')[0];
@@ -376,7 +382,7 @@ function CheckResult({ report }: { report: ImportReport }) {
                 <td className="border-t border-slate-100 px-3 py-1.5 align-top whitespace-nowrap text-slate-600">
                   {problemFieldLabel(p.field)}
                 </td>
-                <td className="border-t border-slate-100 px-3 py-1.5 text-slate-800">{p.message.replace(/^Line \d+:? ?/, '')}</td>
+                <td className="border-t border-slate-100 px-3 py-1.5 text-slate-800">{withoutLine(p.message)}</td>
               </tr>
             ))}
           </tbody>

@@ -23,7 +23,7 @@ export function WellDetails({ well, displayUnits, siteEpsg }: { well: Well; disp
       ? `latitude ${well.inputY.toFixed(7)}°, longitude ${well.inputX.toFixed(7)}°`
       : `x ${well.inputX.toFixed(2)}, y ${well.inputY.toFixed(2)} in EPSG:${well.inputEpsg}`;
   return (
-    <dl className="grid gap-x-6 gap-y-2.5 text-sm sm:grid-cols-[13rem_1fr]">
+    <dl className="grid grid-cols-[8.5rem_minmax(0,1fr)] gap-x-4 gap-y-2.5 text-sm sm:grid-cols-[13rem_minmax(0,1fr)] sm:gap-x-6">
       <Row term="Status"><StatusBadge status={well.status} /></Row>
       <Row term="Hydrostratigraphic unit">{well.hydroUnit ?? <span className="text-slate-400">Not assigned</span>}</Row>
       <Row term="Aquifer condition">{well.aquiferCondition[0].toUpperCase() + well.aquiferCondition.slice(1)}</Row>

@@ -6,7 +6,6 @@ import {
   AQUIFER_CONDITIONS,
   LENGTH_UNIT_IDS,
   WELL_STATUSES,
-  WGS84_EPSG,
   wellFormSchemaFor,
   type WellFields,
   type WellInputParsed,
@@ -179,7 +178,7 @@ export function WellForm({ site, defaultValues, submitLabel, onSubmit, onCancel,
       <Group title="Location">
         <SelectField label="Coordinates entered in" value={mode} onChange={(e) => chooseMode(e.target.value as CoordinateMode)}>
           <option value="site">The site's system (EPSG:{site.epsgCode})</option>
-          <option value="latlon">Latitude / longitude (WGS 84, EPSG:{WGS84_EPSG})</option>
+          <option value="latlon">Latitude / longitude (WGS 84)</option>
           <option value="other">Another EPSG system</option>
         </SelectField>
         {mode === 'other' ? (

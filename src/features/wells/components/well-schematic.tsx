@@ -4,20 +4,24 @@ import type { Well } from '@shared/schemas/wells';
 import { lengthFromSi, lengthToSi } from '@shared/units/length';
 import { formatLength, lengthUnitFor } from '../units';
 
-const W = 400;
+const W = 420;
 const H = 560;
 const TOP = 28;
 const BOTTOM = H - 44;
-const AXIS_X = 50;
-const CX = 150;
-const LABEL_X = 222;
+const AXIS_X = 52;
+const CX = 128;
+const LABEL_X = 204;
+/** The ground and formation stop short of the labels so that the labels sit on white. */
+const FORMATION_RIGHT = LABEL_X - 12;
 /** The borehole is drawn this many px either side of the axis; casing and screen to the same horizontal scale. */
 const BOREHOLE_HALF_PX = 30;
+/** The Lw dimension line, left of the borehole. */
+const LW_X = CX - BOREHOLE_HALF_PX - 12;
 
 type Label = { y: number; text: string; tone?: 'water' | 'muted' };
 
 /** Spread labels so none overlaps the one above it, keeping their order. */
-function spread(labels: Label[], gap = 15): (Label & { ty: number })[] {
+function spread(labels: Label[], gap = 17): (Label & { ty: number })[] {
   const sorted = [...labels].sort((a, b) => a.y - b.y);
   const out: (Label & { ty: number })[] = [];
   for (const l of sorted) {
@@ -88,7 +92,7 @@ export function WellSchematic({ well, displayUnits }: { well: Well; displayUnits
   const waterTop = yStatic === null ? null : Math.max(yStatic, yMp);
 
   return (
-    <figure className="mx-auto w-full max-w-md">
+    <figure className="mx-auto w-full max-w-lg">
       <svg viewBox={`0 0 ${W} ${H}`} className="h-auto w-full" role="img" aria-labelledby={`${uid}-t ${uid}-d`}>
         <title id={`${uid}-t`}>{`Construction of ${well.name}`}</title>
         <desc id={`${uid}-d`}>{description}</desc>
@@ -108,21 +112,21 @@ export function WellSchematic({ well, displayUnits }: { well: Well; displayUnits
         </defs>
 
         {/* Formation below the ground surface */}
-        <rect x={AXIS_X + 8} y={yGround} width={W - AXIS_X - 16} height={BOTTOM - yGround} fill="#faf7f0" />
-        <rect x={AXIS_X + 8} y={yGround} width={W - AXIS_X - 16} height="7" fill={`url(#${uid}-soil)`} />
-        <line x1={AXIS_X + 8} x2={W - 8} y1={yGround} y2={yGround} stroke="#57534e" strokeWidth="1.5" />
+        <rect x={AXIS_X + 8} y={yGround} width={FORMATION_RIGHT - AXIS_X - 8} height={BOTTOM - yGround} fill="#faf7f0" />
+        <rect x={AXIS_X + 8} y={yGround} width={FORMATION_RIGHT - AXIS_X - 8} height="7" fill={`url(#${uid}-soil)`} />
+        <line x1={AXIS_X + 8} x2={FORMATION_RIGHT} y1={yGround} y2={yGround} stroke="#57534e" strokeWidth="1.5" />
 
         {/* Depth axis (below ground) */}
         <line x1={AXIS_X} x2={AXIS_X} y1={y(0)} y2={BOTTOM} stroke="#94a3b8" />
         {ticks.map((t) => (
           <g key={t}>
             <line x1={AXIS_X - 4} x2={AXIS_X} y1={y(toM(t))} y2={y(toM(t))} stroke="#94a3b8" />
-            <text x={AXIS_X - 7} y={y(toM(t)) + 4} textAnchor="end" fontSize="11" fill="#475569">
+            <text x={AXIS_X - 7} y={y(toM(t)) + 4} textAnchor="end" fontSize="12" fill="#475569">
               {Number(t.toFixed(2))}
             </text>
           </g>
         ))}
-        <text x={12} y={(y(0) + BOTTOM) / 2} fontSize="11" fill="#475569" transform={`rotate(-90 12 ${(y(0) + BOTTOM) / 2})`} textAnchor="middle">
+        <text x={14} y={(y(0) + BOTTOM) / 2} fontSize="12" fill="#475569" transform={`rotate(-90 14 ${(y(0) + BOTTOM) / 2})`} textAnchor="middle">
           {`Depth below ground (${depthUnit})`}
         </text>
 
@@ -142,25 +146,17 @@ export function WellSchematic({ well, displayUnits }: { well: Well; displayUnits
         ) : null}
         {yStatic !== null ? (
           <g>
-            <line x1={CX - BOREHOLE_HALF_PX - 14} x2={LABEL_X - 6} y1={yStatic} y2={yStatic} stroke="#2563eb" strokeWidth="1.5" />
-            <path d={`M ${CX - BOREHOLE_HALF_PX - 22} ${yStatic - 9} h 12 l -6 8 z`} fill="#2563eb" />
+            <line x1={LW_X - 4} x2={FORMATION_RIGHT} y1={yStatic} y2={yStatic} stroke="#2563eb" strokeWidth="1.5" />
+            <path d={`M ${FORMATION_RIGHT - 18} ${yStatic - 9} h 12 l -6 8 z`} fill="#2563eb" />
           </g>
         ) : null}
 
-        {/* Lw: static level to screen bottom */}
+        {/* Lw: static level to screen bottom, a dimension line beside the borehole */}
         {yStatic !== null && well.staticToScreenBottomM !== null && yStatic < yBot ? (
           <g>
-            <line x1={CX + BOREHOLE_HALF_PX + 12} x2={CX + BOREHOLE_HALF_PX + 12} y1={yStatic + 3} y2={yBot - 3} stroke="#2563eb" />
-            <path d={`M ${CX + BOREHOLE_HALF_PX + 8} ${yStatic + 7} l 4 -6 l 4 6 z M ${CX + BOREHOLE_HALF_PX + 8} ${yBot - 7} l 4 6 l 4 -6 z`} fill="#2563eb" />
-            <text
-              x={CX + BOREHOLE_HALF_PX + 17}
-              y={(yStatic + yBot) / 2}
-              fontSize="11"
-              fill="#1d4ed8"
-              transform={`rotate(-90 ${CX + BOREHOLE_HALF_PX + 17} ${(yStatic + yBot) / 2})`}
-              textAnchor="middle"
-              dy="-2"
-            >
+            <line x1={LW_X} x2={LW_X} y1={yStatic + 3} y2={yBot - 3} stroke="#2563eb" />
+            <path d={`M ${LW_X - 4} ${yStatic + 7} l 4 -6 l 4 6 z M ${LW_X - 4} ${yBot - 7} l 4 6 l 4 -6 z`} fill="#2563eb" />
+            <text x={LW_X - 6} y={(yStatic + yBot) / 2} fontSize="12" fill="#1d4ed8" transform={`rotate(-90 ${LW_X - 6} ${(yStatic + yBot) / 2})`} textAnchor="middle">
               {`Lw ${d(well.staticToScreenBottomM)}`}
             </text>
           </g>
@@ -169,8 +165,8 @@ export function WellSchematic({ well, displayUnits }: { well: Well; displayUnits
         {/* Labels with leaders */}
         {labels.map((l) => (
           <g key={l.text}>
-            <polyline points={`${CX + BOREHOLE_HALF_PX + 26},${l.y} ${LABEL_X - 4},${l.ty}`} fill="none" stroke={l.tone === 'water' ? '#93c5fd' : '#cbd5e1'} />
-            <text x={LABEL_X} y={l.ty + 4} fontSize="11.5" fill={l.tone === 'water' ? '#1d4ed8' : '#1e293b'}>
+            <polyline points={`${CX + BOREHOLE_HALF_PX + 4},${l.y} ${FORMATION_RIGHT},${l.y} ${LABEL_X - 3},${l.ty}`} fill="none" stroke={l.tone === 'water' ? '#93c5fd' : '#94a3b8'} />
+            <text x={LABEL_X} y={l.ty + 4} fontSize="13" fill={l.tone === 'water' ? '#1d4ed8' : '#1e293b'}>
               {l.text}
             </text>
           </g>
@@ -178,7 +174,7 @@ export function WellSchematic({ well, displayUnits }: { well: Well; displayUnits
 
         {/* Unit beside the screen */}
         {well.hydroUnit ? (
-          <text x={CX} y={Math.min(yBot + 16, BOTTOM + 14)} textAnchor="middle" fontSize="11" fill="#57534e" fontStyle="italic">
+          <text x={CX} y={Math.min(yBot + 17, BOTTOM + 14)} textAnchor="middle" fontSize="12" fill="#57534e" fontStyle="italic">
             {well.hydroUnit}
           </text>
         ) : null}

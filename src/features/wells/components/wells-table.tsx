@@ -48,6 +48,8 @@ function loadVisibility(): VisibilityState {
   return DEFAULT_HIDDEN;
 }
 
+const TOOLBAR_SELECT = 'mt-1 h-9 w-full sm:w-auto';
+
 const equalsOrAll: FilterFn<Well> = (row, columnId, value) => value === undefined || value === '' || row.getValue(columnId) === value;
 
 /** Search across the text columns and the well's name, without regard to case. */
@@ -145,8 +147,8 @@ export function WellsTable({ wells, siteId, displayUnits, epsgCode }: Props) {
 
   return (
     <div>
-      <div className="flex flex-wrap items-end gap-3 border-b border-slate-200 px-4 py-3 sm:px-5">
-        <div className="min-w-48 flex-1">
+      <div className="grid grid-cols-2 items-end gap-3 border-b border-slate-200 px-4 py-3 sm:flex sm:flex-wrap sm:px-5">
+        <div className="col-span-2 sm:min-w-48 sm:flex-1">
           <label htmlFor="wells-search" className="block text-xs font-medium text-slate-600">
             Search wells
           </label>
@@ -161,7 +163,7 @@ export function WellsTable({ wells, siteId, displayUnits, epsgCode }: Props) {
         </div>
         <div>
           <span className="block text-xs font-medium text-slate-600" aria-hidden="true">Unit</span>
-          <InlineSelect label="Filter by hydrostratigraphic unit" className="mt-1" value={filterValue('hydroUnit')} onChange={(e) => setFilter('hydroUnit', e.target.value)}>
+          <InlineSelect label="Filter by hydrostratigraphic unit" className={TOOLBAR_SELECT} value={filterValue('hydroUnit')} onChange={(e) => setFilter('hydroUnit', e.target.value)}>
             <option value="">All units</option>
             {units.map((u) => (
               <option key={u} value={u}>
@@ -172,7 +174,7 @@ export function WellsTable({ wells, siteId, displayUnits, epsgCode }: Props) {
         </div>
         <div>
           <span className="block text-xs font-medium text-slate-600" aria-hidden="true">Status</span>
-          <InlineSelect label="Filter by status" className="mt-1" value={filterValue('status')} onChange={(e) => setFilter('status', e.target.value)}>
+          <InlineSelect label="Filter by status" className={TOOLBAR_SELECT} value={filterValue('status')} onChange={(e) => setFilter('status', e.target.value)}>
             <option value="">All statuses</option>
             {WELL_STATUSES.map((s) => (
               <option key={s} value={s}>
@@ -185,7 +187,7 @@ export function WellsTable({ wells, siteId, displayUnits, epsgCode }: Props) {
           <span className="block text-xs font-medium text-slate-600" aria-hidden="true">Sort by</span>
           <InlineSelect
             label="Sort wells by"
-            className="mt-1"
+            className={TOOLBAR_SELECT}
             value={currentSort ? `${currentSort.id}:${currentSort.desc ? 'desc' : 'asc'}` : ''}
             onChange={(e) => {
               const [id, dir] = e.target.value.split(':');
@@ -204,7 +206,7 @@ export function WellsTable({ wells, siteId, displayUnits, epsgCode }: Props) {
           </InlineSelect>
         </div>
         <details className="relative">
-          <summary className="flex h-9 cursor-pointer list-none items-center rounded-md bg-white px-3 text-sm font-medium text-slate-800 shadow-sm ring-1 ring-slate-300 ring-inset hover:bg-slate-50 [&::-webkit-details-marker]:hidden">
+          <summary className="flex h-9 w-full cursor-pointer list-none items-center rounded-md bg-white px-3 text-sm font-medium text-slate-800 shadow-sm ring-1 ring-slate-300 ring-inset hover:bg-slate-50 [&::-webkit-details-marker]:hidden">
             Columns ({table.getVisibleLeafColumns().length}/{table.getAllLeafColumns().length})
           </summary>
           <fieldset className="absolute right-0 z-20 mt-1 max-h-96 w-64 overflow-y-auto rounded-md bg-white p-3 shadow-lg ring-1 ring-slate-200 max-sm:left-0 max-sm:right-auto">
@@ -269,7 +271,7 @@ export function WellsTable({ wells, siteId, displayUnits, epsgCode }: Props) {
                 <tr
                   key={row.id}
                   onClick={() => navigate(`/sites/${siteId}/wells/${row.original.id}`)}
-                  className="cursor-pointer hover:bg-accent-50/50 max-sm:block max-sm:border-b max-sm:border-slate-200 max-sm:px-4 max-sm:py-2"
+                  className="cursor-pointer hover:bg-accent-50/50 max-sm:grid max-sm:grid-cols-2 max-sm:gap-x-4 max-sm:gap-y-1.5 max-sm:border-b max-sm:border-slate-200 max-sm:px-4 max-sm:py-3"
                 >
                   {row.getVisibleCells().map((cell) => {
                     const numeric = (cell.column.columnDef.meta as { numeric?: boolean } | undefined)?.numeric;
@@ -280,8 +282,10 @@ export function WellsTable({ wells, siteId, displayUnits, epsgCode }: Props) {
                         className={cn(
                           'border-b border-slate-100 px-3 py-2 whitespace-nowrap text-slate-800',
                           numeric && 'text-right tabular-nums',
-                          'max-sm:flex max-sm:justify-between max-sm:gap-4 max-sm:border-0 max-sm:px-0 max-sm:py-0.5 max-sm:whitespace-normal',
-                          'max-sm:before:shrink-0 max-sm:before:text-xs max-sm:before:text-slate-500 max-sm:before:content-[attr(data-label)]',
+                          // Narrow screens: each row is a card of label-over-value pairs, the name across the top.
+                          'max-sm:flex max-sm:min-w-0 max-sm:flex-col max-sm:items-start max-sm:border-0 max-sm:p-0 max-sm:text-left max-sm:whitespace-normal',
+                          'max-sm:before:text-[11px] max-sm:before:leading-4 max-sm:before:text-slate-500 max-sm:before:content-[attr(data-label)]',
+                          cell.column.id === 'name' && 'max-sm:col-span-2 max-sm:text-base max-sm:before:hidden',
                         )}
                       >
                         {flexRender(cell.column.columnDef.cell, cell.getContext())}
