@@ -19,6 +19,7 @@ import { authRoutes } from './features/auth/auth.router';
 import { createAuthService } from './features/auth/auth.service';
 import type { Mailer } from './features/mail/mailer';
 import { fitsRoutes } from './features/fits/fits.router';
+import { mapRoutes } from './features/map/map.router';
 import { membersRoutes } from './features/members/members.router';
 import { recordsRoutes } from './features/records/records.router';
 import { sitesRoutes } from './features/sites/sites.router';
@@ -120,6 +121,7 @@ export function createApp({ config, ds, mailer, log = (m, e) => console.error(m,
     ...wellsRoutes(ctx),
     ...recordsRoutes(ctx),
     ...fitsRoutes(ctx),
+    ...mapRoutes(ctx),
     ...adminRoutes(ctx, store, auth.sendReset),
   ];
   const routes: MountedRoute[] = [];

@@ -116,6 +116,8 @@ export const policyTable: Record<string, PolicyRule> = {
   'GET /api/wells/:wellId/k': site(anyRole, byWell),
   'GET /api/checks': SIGNED_IN,
 
+  'GET /api/sites/:siteId/map/wells': site(anyRole),
+
   'GET /api/admin/users': ADMIN,
   'POST /api/admin/users': ADMIN,
   'PATCH /api/admin/users/:userId': ADMIN,

@@ -2,6 +2,7 @@ import { SessionRow } from '../auth/session.entity';
 import { PasswordReset } from '../features/auth/password-reset.entity';
 import { FitEventEntity } from '../features/fits/fit-event.entity';
 import { FitEntity } from '../features/fits/fit.entity';
+import { MapVersion } from '../features/map/map-version.entity';
 import { OutboxMessage } from '../features/mail/outbox-message.entity';
 import { Invitation } from '../features/members/invitation.entity';
 import { RecordFile } from '../features/records/record-file.entity';
@@ -12,4 +13,4 @@ import { Site } from '../features/sites/site.entity';
 import { User } from '../features/users/user.entity';
 import { Well } from '../features/wells/well.entity';
 
-export const entities = [User, SessionRow, Site, Membership, Invitation, PasswordReset, OutboxMessage, Well, RecordEntity, RecordFile, RecordSeries, FitEntity, FitEventEntity];
+export const entities = [User, SessionRow, Site, Membership, Invitation, PasswordReset, OutboxMessage, Well, RecordEntity, RecordFile, RecordSeries, FitEntity, FitEventEntity, MapVersion];
