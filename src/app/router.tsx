@@ -7,11 +7,15 @@ import { membersQueryOptions } from '@/features/members/api';
 import { outboxQueryOptions, usersQueryOptions } from '@/features/admin/api';
 import { siteQueryOptions, sitesQueryOptions } from '@/features/sites/api';
 import { wellQueryOptions, wellsQueryOptions } from '@/features/wells/api';
+import { checksQueryOptions, fitQueryOptions, recordMetaQueryOptions, reducedQueryOptions, seriesQueryOptions } from '@/features/fits/api';
 import { safeNextPath, signInPathFor } from '@/lib/safe-next';
 import { AcceptInvitationRoute } from './routes/accept-invitation';
 import { AdminOutboxRoute } from './routes/admin-outbox';
 import { AdminUsersRoute } from './routes/admin-users';
 import { AppShell } from './routes/app-shell';
+import { ChecksRoute } from './routes/checks';
+import { NewFitRoute } from './routes/fit-new';
+import { FitRoute } from './routes/fit-page';
 import { ForgotPasswordRoute } from './routes/forgot-password';
 import { PublicLayout } from './routes/public-layout';
 import { ResetPasswordRoute } from './routes/reset-password';
@@ -76,6 +80,19 @@ export function createRoutes(queryClient: QueryClient): RouteObject[] {
     void queryClient.prefetchQuery(wellQueryOptions(params.wellId ?? ''));
   });
 
+  const prefetchNewFit = prefetchWhenSignedIn(({ params }) => {
+    const recordId = params.recordId ?? '';
+    void queryClient.prefetchQuery(siteQueryOptions(params.siteId ?? ''));
+    void queryClient.prefetchQuery(recordMetaQueryOptions(recordId));
+    void queryClient.prefetchQuery(reducedQueryOptions(recordId));
+    void queryClient.prefetchQuery(seriesQueryOptions(recordId));
+  });
+
+  const prefetchFit = prefetchWhenSignedIn(({ params }) => {
+    void queryClient.prefetchQuery(siteQueryOptions(params.siteId ?? ''));
+    void queryClient.prefetchQuery(fitQueryOptions(params.fitId ?? ''));
+  });
+
   const prefetchForAdmin = (start: () => void) =>
     prefetchWhenSignedIn((_, me) => {
       if (me.isAdmin) start();
@@ -120,6 +137,9 @@ export function createRoutes(queryClient: QueryClient): RouteObject[] {
                 { path: 'sites/:siteId/wells/new', loader: prefetchWells, element: <NewWellRoute /> },
                 { path: 'sites/:siteId/wells/import', loader: prefetchWells, element: <WellsImportRoute /> },
                 { path: 'sites/:siteId/wells/:wellId', loader: prefetchWell, element: <WellPageRoute /> },
+                { path: 'sites/:siteId/records/:recordId/fit', loader: prefetchNewFit, element: <NewFitRoute /> },
+                { path: 'sites/:siteId/fits/:fitId', loader: prefetchFit, element: <FitRoute /> },
+                { path: 'checks', loader: prefetchWhenSignedIn(() => void queryClient.prefetchQuery(checksQueryOptions())), element: <ChecksRoute /> },
                 {
                   path: 'admin',
                   loader: adminOnly,

@@ -4,6 +4,7 @@ import { Disclaimer } from '@/components/ui/disclaimer';
 import { useToast } from '@/components/ui/toast';
 import { Wordmark } from '@/components/ui/wordmark';
 import { useMe, useSignOut } from '@/features/auth/hooks';
+import { ChecksNavLink } from '@/features/fits/components/checks-nav-link';
 import { SiteSwitch } from '@/features/sites/components/site-switch';
 import { cn } from '@/lib/cn';
 import { describeError } from '@/lib/errors';
@@ -46,6 +47,7 @@ export function AppShell() {
             <NavLink to="/" end className={() => navLink({ isActive: location.pathname === '/' || siteMatch !== null })}>
               Sites
             </NavLink>
+            <ChecksNavLink className={navLink} />
             {me.isAdmin ? (
               <>
                 <NavLink to="/admin/users" className={navLink}>

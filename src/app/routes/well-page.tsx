@@ -10,6 +10,7 @@ import { ConfirmButton } from '@/components/ui/confirm-button';
 import { QueryBoundary, RegionError } from '@/components/ui/error-boundary';
 import { PageHeader } from '@/components/ui/page-header';
 import { useToast } from '@/components/ui/toast';
+import { WellFitsPanel } from '@/features/fits/components/well-fits-panel';
 import { siteQueryOptions } from '@/features/sites/api';
 import { CrsLookup } from '@/features/sites/components/crs-lookup';
 import { deleteWell, updateWell, wellKeys, wellQueryOptions } from '@/features/wells/api';
@@ -42,6 +43,7 @@ type WellSection = {
 const WELL_SECTIONS: WellSection[] = [
   { id: 'construction', title: 'Construction', Component: ConstructionSection },
   { id: 'details', title: 'Details', Component: DetailsSection },
+  { id: 'fits', title: 'Well K, fits and repeat tests', wide: true, Component: WellFitsPanel },
 ];
 
 function ConstructionSection({ site, well }: WellSectionProps) {

@@ -1,0 +1,101 @@
+import { useId, useState } from 'react';
+import { useMutation, useQueryClient } from '@tanstack/react-query';
+import type { Fit } from '@shared/schemas/fits';
+import { Alert } from '@/components/ui/alert';
+import { Button } from '@/components/ui/button';
+import { TextAreaField } from '@/components/ui/field';
+import { useToast } from '@/components/ui/toast';
+import { isApiError } from '@/lib/api-client';
+import { describeError } from '@/lib/errors';
+import { checkFit, fitKeys, invalidateFit, submitFit } from '../api';
+
+type Decision = 'checked' | 'sent-back';
+
+/** Submit, Check and Send back, as `fit.can` allows; the server enforces the same rules. */
+export function FitActions({ fit, dirty, onChanged }: { fit: Fit; dirty: boolean; onChanged?: (fit: Fit) => void }) {
+  const queryClient = useQueryClient();
+  const toast = useToast();
+  const [decision, setDecision] = useState<Decision | null>(null);
+  const [comment, setComment] = useState('');
+  const [commentError, setCommentError] = useState<string | undefined>();
+  const headingId = useId();
+
+  const done = async (next: Fit, message: string) => {
+    queryClient.setQueryData(fitKeys.detail(next.id), next);
+    await invalidateFit(queryClient, next);
+    toast.success(message);
+    onChanged?.(next);
+  };
+
+  const submit = useMutation({
+    mutationFn: () => submitFit(fit.id),
+    onSuccess: (next) => done(next, 'Submitted for check: the site’s Checkers have been e-mailed.'),
+  });
+  const check = useMutation({
+    mutationFn: (d: Decision) => checkFit(fit.id, { decision: d, comment: comment.trim() }),
+    onSuccess: async (next, d) => {
+      setDecision(null);
+      setComment('');
+      await done(next, d === 'checked' ? 'Checked: the fit now counts toward Well K.' : 'Sent back to the preparer with your comment.');
+    },
+  });
+
+  const confirm = () => {
+    if (!decision) return;
+    if (decision === 'sent-back' && comment.trim() === '') {
+      setCommentError('Say what to change when sending a fit back');
+      return;
+    }
+    setCommentError(undefined);
+    check.mutate(decision);
+  };
+
+  if (!fit.can.submit && !fit.can.check) return null;
+  const error = submit.error ?? check.error;
+  const serverCommentError = isApiError(check.error) ? check.error.fields?.comment : undefined;
+
+  return (
+    <div className="space-y-3">
+      {fit.can.submit ? (
+        <div className="flex flex-wrap items-center gap-2">
+          <Button onClick={() => submit.mutate()} pending={submit.isPending} disabled={dirty}>
+            Submit for check
+          </Button>
+          {dirty ? <span className="text-xs text-slate-600">Save the changes first.</span> : null}
+        </div>
+      ) : null}
+      {fit.can.check && decision === null ? (
+        <div className="flex flex-wrap gap-2">
+          <Button onClick={() => setDecision('checked')}>Check</Button>
+          <Button variant="danger" onClick={() => setDecision('sent-back')}>
+            Send back
+          </Button>
+        </div>
+      ) : null}
+      {fit.can.check && decision !== null ? (
+        <section role="group" aria-labelledby={headingId} className="space-y-3 rounded-md bg-slate-50 p-3 ring-1 ring-slate-200 ring-inset">
+          <h3 id={headingId} className="text-sm font-semibold text-slate-900">
+            {decision === 'checked' ? 'Sign this fit off as Checked' : 'Send this fit back to its preparer'}
+          </h3>
+          <TextAreaField
+            label={decision === 'checked' ? 'Comment (optional)' : 'What should change?'}
+            hint={decision === 'checked' ? 'Sent to the preparer with the decision.' : 'Required: the preparer receives it by e-mail.'}
+            value={comment}
+            onChange={(e) => setComment(e.target.value)}
+            error={commentError ?? serverCommentError}
+            autoFocus
+          />
+          <div className="flex flex-wrap gap-2">
+            <Button variant={decision === 'checked' ? 'primary' : 'danger'} onClick={confirm} pending={check.isPending}>
+              {decision === 'checked' ? 'Confirm: Checked' : 'Confirm: Send back'}
+            </Button>
+            <Button variant="ghost" onClick={() => setDecision(null)} disabled={check.isPending}>
+              Cancel
+            </Button>
+          </div>
+        </section>
+      ) : null}
+      {error ? <Alert tone="error">{describeError(error)}</Alert> : null}
+    </div>
+  );
+}

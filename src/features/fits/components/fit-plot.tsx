@@ -1,0 +1,543 @@
+import { useCallback, useEffect, useId, useMemo, useRef, useState, type KeyboardEvent, type PointerEvent as ReactPointerEvent } from 'react';
+import { scaleLinear, scaleLog } from 'd3-scale';
+import { RECOMMENDED_HEAD_RANGES, type FitMethod } from '@shared/hydraulics/fitting';
+import { Button } from '@/components/ui/button';
+import { cn } from '@/lib/cn';
+import { formatQuantity } from '../format';
+import {
+  ONE_OVER_E,
+  PLOT_TIME_UNITS,
+  dragRange,
+  headDomain,
+  hitTestWindow,
+  logTicks,
+  panView,
+  secondsPer,
+  zoomView,
+  type DragMode,
+  type PlotTimeUnit,
+  type TimeRange,
+} from '../plot-math';
+import type { Residuals } from '../preview';
+import { useElementWidth } from './use-element-width';
+
+/** Kfield's own plot colours (slate neutrals and the app's teal; the line in a dark rust). */
+export const PLOT_COLOURS = {
+  inWindow: '#135c56',
+  outside: '#94a3b8',
+  line: '#9a3412',
+  band: '#17736b',
+  recommended: '#f59e0b',
+  oneOverE: '#475569',
+  grid: '#e2e8f0',
+  axis: '#334155',
+} as const;
+
+export interface FitLineView {
+  intercept: number;
+  slopePerSecond: number;
+  /** Where the line reaches 1/e. */
+  lineCrossingSeconds: number;
+  /** Where the record reaches 1/e; null when it never does. */
+  recordCrossingSeconds: number | null;
+  anchored: boolean;
+}
+
+interface Props {
+  elapsedSeconds: readonly number[];
+  normalizedHead: readonly number[];
+  method: FitMethod;
+  /** The fitting window on the time axis; null while none can be shown. */
+  window: TimeRange | null;
+  /** Omitted: the plot is read-only. */
+  onWindowChange?: (range: TimeRange) => void;
+  inWindow: (t: number, h: number) => boolean;
+  line: FitLineView | null;
+  residuals: Residuals | null;
+  timeUnit: PlotTimeUnit;
+  onTimeUnitChange: (unit: PlotTimeUnit) => void;
+  /** Names the plot for screen readers. */
+  label: string;
+}
+
+const MARGIN = { left: 60, right: 14, top: 12 };
+const MAIN_HEIGHT = 330;
+const X_AXIS_HEIGHT = 34;
+const STRIP_HEIGHT = 84;
+const STRIP_GAP = 10;
+const BOTTOM = 40;
+const TOTAL_HEIGHT = MARGIN.top + MAIN_HEIGHT + X_AXIS_HEIGHT + STRIP_HEIGHT + STRIP_GAP + BOTTOM;
+
+interface Drag {
+  kind: 'window' | 'pan';
+  mode: DragMode;
+  pointerId: number;
+  startX: number;
+  startSeconds: number;
+  original: TimeRange | null;
+  startView: [number, number];
+  moved: boolean;
+}
+
+/** The semi-log plot of H/H0 against time with the fitting window, the line, 1/e and a residual strip. */
+export function FitPlot({
+  elapsedSeconds,
+  normalizedHead,
+  method,
+  window,
+  onWindowChange,
+  inWindow,
+  line,
+  residuals,
+  timeUnit,
+  onTimeUnitChange,
+  label,
+}: Props) {
+  const [containerRef, measured] = useElementWidth<HTMLDivElement>();
+  const width = Math.max(300, measured || 720);
+  const plotWidth = width - MARGIN.left - MARGIN.right;
+  const clipId = `fit-plot-${useId().replace(/[^a-zA-Z0-9_-]/g, '')}`;
+  const svgRef = useRef<SVGSVGElement | null>(null);
+
+  const fullDomain = useMemo<[number, number]>(() => {
+    let max = 0;
+    for (const t of elapsedSeconds) if (t > max) max = t;
+    if (window && window.toSeconds > max) max = window.toSeconds;
+    return [0, max > 0 ? max * 1.03 : 1];
+  }, [elapsedSeconds, window]);
+  const [zoom, setZoom] = useState<[number, number] | null>(null);
+  const view: [number, number] = zoom ?? fullDomain;
+
+  const [yLo, yHi] = useMemo(() => headDomain(normalizedHead), [normalizedHead]);
+  const per = secondsPer(timeUnit);
+  const x = useMemo(() => scaleLinear().domain(view).range([MARGIN.left, MARGIN.left + plotWidth]), [view, plotWidth]);
+  const y = useMemo(() => scaleLog().domain([yLo, yHi]).range([MARGIN.top + MAIN_HEIGHT, MARGIN.top]), [yLo, yHi]);
+  const stripTop = MARGIN.top + MAIN_HEIGHT + X_AXIS_HEIGHT + STRIP_GAP;
+  const residualMax = useMemo(() => {
+    let m = 0;
+    for (const r of residuals?.residual ?? []) m = Math.max(m, Math.abs(r));
+    return Math.max(0.01, m * 1.15);
+  }, [residuals]);
+  const yr = useMemo(() => scaleLinear().domain([-residualMax, residualMax]).range([stripTop + STRIP_HEIGHT, stripTop]), [residualMax, stripTop]);
+
+  const xTicks = useMemo(() => {
+    const unitScale = scaleLinear().domain([view[0] / per, view[1] / per]);
+    const ticks = unitScale.ticks(Math.max(3, Math.floor(plotWidth / 90)));
+    const format = unitScale.tickFormat(Math.max(3, Math.floor(plotWidth / 90)));
+    return ticks.map((v) => ({ seconds: v * per, label: format(v) }));
+  }, [view, per, plotWidth]);
+  const yTicks = useMemo(() => logTicks(yLo, yHi), [yLo, yHi]);
+
+  const secondsAt = useCallback(
+    (clientX: number) => {
+      const rect = svgRef.current?.getBoundingClientRect();
+      const left = rect ? rect.left : 0;
+      const scaleX = rect && rect.width > 0 ? width / rect.width : 1;
+      return x.invert((clientX - left) * scaleX);
+    },
+    [x, width],
+  );
+
+  // Wheel zoom needs a non-passive listener to keep the page from scrolling under the plot.
+  const viewRef = useRef(view);
+  viewRef.current = view;
+  useEffect(() => {
+    const svg = svgRef.current;
+    if (!svg) return;
+    const onWheel = (event: WheelEvent) => {
+      if (event.deltaY === 0) return;
+      event.preventDefault();
+      const center = secondsAt(event.clientX);
+      setZoom(zoomView(viewRef.current, event.deltaY < 0 ? 0.8 : 1.25, center, fullDomain));
+    };
+    svg.addEventListener('wheel', onWheel, { passive: false });
+    return () => svg.removeEventListener('wheel', onWheel);
+  }, [secondsAt, fullDomain]);
+
+  const drag = useRef<Drag | null>(null);
+  const [cursor, setCursor] = useState<string>(onWindowChange ? 'crosshair' : 'default');
+  const windowPx = window ? { from: x(window.fromSeconds), to: x(window.toSeconds) } : null;
+
+  const onPointerDown = (event: ReactPointerEvent<SVGRectElement>) => {
+    if (event.button !== 0) return;
+    const seconds = secondsAt(event.clientX);
+    const localX = x(seconds);
+    const pan = event.shiftKey || event.altKey || event.ctrlKey || event.metaKey || !onWindowChange;
+    const mode: DragMode = pan ? 'move' : hitTestWindow(localX, windowPx?.from ?? null, windowPx?.to ?? null);
+    drag.current = {
+      kind: pan ? 'pan' : 'window',
+      mode,
+      pointerId: event.pointerId,
+      startX: event.clientX,
+      startSeconds: seconds,
+      original: window,
+      startView: view,
+      moved: false,
+    };
+    event.currentTarget.setPointerCapture?.(event.pointerId);
+    event.preventDefault();
+  };
+
+  const onPointerMove = (event: ReactPointerEvent<SVGRectElement>) => {
+    const d = drag.current;
+    if (!d) {
+      if (!onWindowChange) return;
+      const m = hitTestWindow(x(secondsAt(event.clientX)), windowPx?.from ?? null, windowPx?.to ?? null);
+      setCursor(event.shiftKey ? 'grab' : m === 'from' || m === 'to' ? 'ew-resize' : m === 'move' ? 'grab' : 'crosshair');
+      return;
+    }
+    if (event.pointerId !== d.pointerId) return;
+    if (Math.abs(event.clientX - d.startX) >= 3) d.moved = true;
+    if (!d.moved) return;
+    if (d.kind === 'pan') {
+      const rect = svgRef.current?.getBoundingClientRect();
+      const pxToSvg = rect && rect.width > 0 ? width / rect.width : 1;
+      const secondsPerPx = (d.startView[1] - d.startView[0]) / plotWidth;
+      setZoom(panView(d.startView, -(event.clientX - d.startX) * pxToSvg * secondsPerPx, fullDomain));
+      return;
+    }
+    const pointer = secondsAt(event.clientX);
+    onWindowChange?.(dragRange(d.mode, d.original, d.startSeconds, pointer, [0, fullDomain[1]]));
+  };
+
+  const endDrag = (event: ReactPointerEvent<SVGRectElement>) => {
+    const d = drag.current;
+    if (!d || event.pointerId !== d.pointerId) return;
+    drag.current = null;
+    event.currentTarget.releasePointerCapture?.(event.pointerId);
+  };
+
+  const nudge = (edge: 'from' | 'to') => (event: KeyboardEvent<SVGRectElement>) => {
+    if (!window || !onWindowChange) return;
+    const step = ((view[1] - view[0]) / 100) * (event.shiftKey ? 10 : 1);
+    const delta = event.key === 'ArrowLeft' || event.key === 'ArrowDown' ? -step : event.key === 'ArrowRight' || event.key === 'ArrowUp' ? step : 0;
+    if (delta === 0) return;
+    event.preventDefault();
+    const current = edge === 'from' ? window.fromSeconds : window.toSeconds;
+    onWindowChange(dragRange(edge, window, current, current + delta, [0, fullDomain[1]]));
+  };
+
+  const recommended = RECOMMENDED_HEAD_RANGES[method];
+  const lineSegment = useMemo(() => {
+    if (!line || !(line.slopePerSecond < 0)) return null;
+    const t0 = Math.max(0, view[0]);
+    const tBottom = (Math.log(yLo) - line.intercept) / line.slopePerSecond;
+    const t1 = Math.min(view[1], tBottom);
+    if (!(t1 > t0)) return null;
+    const h = (t: number) => Math.exp(line.intercept + line.slopePerSecond * t);
+    return { x1: x(t0), y1: y(Math.min(yHi, h(t0))), x2: x(t1), y2: y(Math.max(yLo, h(t1))) };
+  }, [line, view, x, y, yLo, yHi]);
+
+  const points = useMemo(() => {
+    const inside: string[] = [];
+    const outside: string[] = [];
+    for (let i = 0; i < elapsedSeconds.length; i++) {
+      const t = elapsedSeconds[i];
+      const h = normalizedHead[i];
+      if (t < view[0] || t > view[1] || !(h >= yLo) || h > yHi) continue;
+      const d = `M${x(t).toFixed(1)},${y(h).toFixed(1)}h0`;
+      (inWindow(t, h) ? inside : outside).push(d);
+    }
+    return { inside: inside.join(''), outside: outside.join('') };
+  }, [elapsedSeconds, normalizedHead, view, x, y, yLo, yHi, inWindow]);
+
+  const residualPath = useMemo(() => {
+    if (!residuals) return '';
+    const parts: string[] = [];
+    for (let i = 0; i < residuals.elapsedSeconds.length; i++) {
+      const t = residuals.elapsedSeconds[i];
+      if (t < view[0] || t > view[1]) continue;
+      parts.push(`M${x(t).toFixed(1)},${yr(residuals.residual[i]).toFixed(1)}h0`);
+    }
+    return parts.join('');
+  }, [residuals, view, x, yr]);
+
+  const zoomBy = (factor: number) => setZoom(zoomView(view, factor, (view[0] + view[1]) / 2, fullDomain));
+  const panBy = (share: number) => setZoom(panView(view, (view[1] - view[0]) * share, fullDomain));
+  const zoomed = zoom !== null;
+  const unitLabel = PLOT_TIME_UNITS.find((u) => u.id === timeUnit)?.label ?? timeUnit;
+  const fmtT = (seconds: number) => `${formatQuantity(seconds / per)} ${unitLabel}`;
+  const oneOverEY = y(ONE_OVER_E);
+
+  return (
+    <div className="space-y-2">
+      <div className="flex flex-wrap items-center gap-2">
+        <div role="radiogroup" aria-label="Time unit" className="inline-flex rounded-md shadow-sm ring-1 ring-slate-300 ring-inset">
+          {PLOT_TIME_UNITS.map((u) => (
+            <button
+              key={u.id}
+              type="button"
+              role="radio"
+              aria-checked={timeUnit === u.id}
+              onClick={() => onTimeUnitChange(u.id)}
+              className={cn(
+                'h-8 px-3 text-sm first:rounded-l-md last:rounded-r-md',
+                timeUnit === u.id ? 'bg-accent-700 font-medium text-white' : 'bg-white text-slate-700 hover:bg-slate-50',
+              )}
+            >
+              {u.label}
+            </button>
+          ))}
+        </div>
+        <div className="flex flex-wrap items-center gap-1">
+          <Button variant="secondary" size="sm" onClick={() => zoomBy(0.5)}>
+            Zoom in
+          </Button>
+          <Button variant="secondary" size="sm" onClick={() => zoomBy(2)} disabled={!zoomed}>
+            Zoom out
+          </Button>
+          <Button variant="secondary" size="sm" onClick={() => panBy(-0.25)} disabled={!zoomed || view[0] <= fullDomain[0]} aria-label="Pan to earlier times">
+            ←
+          </Button>
+          <Button variant="secondary" size="sm" onClick={() => panBy(0.25)} disabled={!zoomed || view[1] >= fullDomain[1]} aria-label="Pan to later times">
+            →
+          </Button>
+          <Button variant="ghost" size="sm" onClick={() => setZoom(null)} disabled={!zoomed}>
+            Reset
+          </Button>
+        </div>
+      </div>
+      <div ref={containerRef} className="w-full min-w-0">
+        <svg
+          ref={svgRef}
+          width="100%"
+          viewBox={`0 0 ${width} ${TOTAL_HEIGHT}`}
+          role="img"
+          aria-label={label}
+          className="block h-auto w-full touch-pan-y select-none"
+          data-view-from-seconds={view[0]}
+          data-view-to-seconds={view[1]}
+          data-plot-left={MARGIN.left}
+          data-plot-width={plotWidth}
+          data-svg-width={width}
+        >
+          <defs>
+            <clipPath id={clipId}>
+              <rect x={MARGIN.left} y={MARGIN.top} width={plotWidth} height={MAIN_HEIGHT} />
+            </clipPath>
+            <clipPath id={`${clipId}-strip`}>
+              <rect x={MARGIN.left} y={stripTop} width={plotWidth} height={STRIP_HEIGHT} />
+            </clipPath>
+          </defs>
+
+          {/* Grid and the log axis: decades labelled, minor ticks 2…9. */}
+          <rect x={MARGIN.left} y={MARGIN.top} width={plotWidth} height={MAIN_HEIGHT} fill="white" stroke={PLOT_COLOURS.grid} />
+          {yTicks.minor.map((v) => (
+            <line key={`m${v}`} x1={MARGIN.left} x2={MARGIN.left + plotWidth} y1={y(v)} y2={y(v)} stroke={PLOT_COLOURS.grid} strokeWidth={0.5} />
+          ))}
+          {yTicks.decades.map((d) => (
+            <g key={`d${d.value}`}>
+              <line x1={MARGIN.left} x2={MARGIN.left + plotWidth} y1={y(d.value)} y2={y(d.value)} stroke="#cbd5e1" />
+              <text x={MARGIN.left - 8} y={y(d.value)} dy="0.32em" textAnchor="end" fontSize={12} fill={PLOT_COLOURS.axis}>
+                {d.label}
+              </text>
+            </g>
+          ))}
+          {yTicks.minor.map((v) => (
+            <line key={`mt${v}`} x1={MARGIN.left - 4} x2={MARGIN.left} y1={y(v)} y2={y(v)} stroke={PLOT_COLOURS.axis} strokeWidth={0.75} />
+          ))}
+          {xTicks.map((t) => (
+            <g key={`x${t.seconds}`}>
+              <line x1={x(t.seconds)} x2={x(t.seconds)} y1={MARGIN.top} y2={MARGIN.top + MAIN_HEIGHT} stroke={PLOT_COLOURS.grid} />
+              <line x1={x(t.seconds)} x2={x(t.seconds)} y1={stripTop} y2={stripTop + STRIP_HEIGHT} stroke={PLOT_COLOURS.grid} />
+              <text x={x(t.seconds)} y={MARGIN.top + MAIN_HEIGHT + 16} textAnchor="middle" fontSize={12} fill={PLOT_COLOURS.axis}>
+                {t.label}
+              </text>
+            </g>
+          ))}
+          <text
+            transform={`translate(14 ${MARGIN.top + MAIN_HEIGHT / 2}) rotate(-90)`}
+            textAnchor="middle"
+            fontSize={12}
+            fill={PLOT_COLOURS.axis}
+          >
+            Normalized head H/H0 (log)
+          </text>
+
+          <g clipPath={`url(#${clipId})`}>
+            {/* The method's recommended head range. */}
+            <rect
+              x={MARGIN.left}
+              width={plotWidth}
+              y={y(Math.min(recommended.upper, yHi))}
+              height={Math.max(0, y(Math.max(recommended.lower, yLo)) - y(Math.min(recommended.upper, yHi)))}
+              fill={PLOT_COLOURS.recommended}
+              fillOpacity={0.14}
+              data-testid="recommended-range"
+            />
+            <text x={MARGIN.left + plotWidth - 6} y={y(recommended.upper) + 13} textAnchor="end" fontSize={11} fill="#92400e">
+              recommended H/H0 {recommended.upper.toFixed(2)}–{recommended.lower.toFixed(2)}
+            </text>
+
+            {window ? (
+              <rect
+                x={Math.min(x(window.fromSeconds), x(window.toSeconds))}
+                width={Math.max(1, Math.abs(x(window.toSeconds) - x(window.fromSeconds)))}
+                y={MARGIN.top}
+                height={MAIN_HEIGHT}
+                fill={PLOT_COLOURS.band}
+                fillOpacity={0.1}
+                stroke={PLOT_COLOURS.band}
+                strokeOpacity={0.6}
+                strokeDasharray="4 3"
+                data-testid="fit-window-band"
+              />
+            ) : null}
+
+            {/* 1/e line. */}
+            <line x1={MARGIN.left} x2={MARGIN.left + plotWidth} y1={oneOverEY} y2={oneOverEY} stroke={PLOT_COLOURS.oneOverE} strokeDasharray="6 4" />
+            <text x={MARGIN.left + 6} y={oneOverEY - 5} fontSize={11} fill={PLOT_COLOURS.oneOverE}>
+              1/e = 0.37
+            </text>
+
+            <path d={points.outside} stroke={PLOT_COLOURS.outside} strokeWidth={4} strokeLinecap="round" data-testid="readings-outside" />
+            <path d={points.inside} stroke={PLOT_COLOURS.inWindow} strokeWidth={5} strokeLinecap="round" data-testid="readings-in-window" />
+
+            {lineSegment ? (
+              <line {...lineSegment} stroke={PLOT_COLOURS.line} strokeWidth={2} data-testid="fitted-line" />
+            ) : null}
+
+            {line && line.lineCrossingSeconds >= view[0] && line.lineCrossingSeconds <= view[1] ? (
+              <g data-testid="t0-marker">
+                <line
+                  x1={x(line.lineCrossingSeconds)}
+                  x2={x(line.lineCrossingSeconds)}
+                  y1={oneOverEY}
+                  y2={MARGIN.top + MAIN_HEIGHT}
+                  stroke={PLOT_COLOURS.line}
+                  strokeDasharray="3 3"
+                />
+                <circle cx={x(line.lineCrossingSeconds)} cy={oneOverEY} r={5} fill="white" stroke={PLOT_COLOURS.line} strokeWidth={2} />
+                <text
+                  x={x(line.lineCrossingSeconds) + 7}
+                  y={oneOverEY + 16}
+                  fontSize={12}
+                  fontWeight={600}
+                  fill={PLOT_COLOURS.line}
+                  textAnchor={x(line.lineCrossingSeconds) > MARGIN.left + plotWidth - 150 ? 'end' : 'start'}
+                  dx={x(line.lineCrossingSeconds) > MARGIN.left + plotWidth - 150 ? -14 : 0}
+                >
+                  {line.anchored ? 'T0' : 'line at 1/e'} = {fmtT(line.lineCrossingSeconds)}
+                </text>
+              </g>
+            ) : null}
+            {line && line.recordCrossingSeconds !== null && line.recordCrossingSeconds >= view[0] && line.recordCrossingSeconds <= view[1] ? (
+              <g data-testid="record-crossing">
+                <path
+                  d={`M${x(line.recordCrossingSeconds)},${oneOverEY - 6}l6,6l-6,6l-6,-6z`}
+                  fill="white"
+                  stroke={PLOT_COLOURS.inWindow}
+                  strokeWidth={1.5}
+                />
+                <text
+                  x={x(line.recordCrossingSeconds) + 8}
+                  y={oneOverEY - 8}
+                  fontSize={11}
+                  fill={PLOT_COLOURS.inWindow}
+                  textAnchor={x(line.recordCrossingSeconds) > MARGIN.left + plotWidth - 170 ? 'end' : 'start'}
+                  dx={x(line.recordCrossingSeconds) > MARGIN.left + plotWidth - 170 ? -16 : 0}
+                >
+                  record at 1/e = {fmtT(line.recordCrossingSeconds)}
+                </text>
+              </g>
+            ) : null}
+          </g>
+
+          {/* Residual strip: ln(H/H0) minus the line, for the window's readings. */}
+          <rect x={MARGIN.left} y={stripTop} width={plotWidth} height={STRIP_HEIGHT} fill="white" stroke={PLOT_COLOURS.grid} />
+          <line x1={MARGIN.left} x2={MARGIN.left + plotWidth} y1={yr(0)} y2={yr(0)} stroke={PLOT_COLOURS.line} strokeWidth={1} />
+          {[residualMax / 1.15, -residualMax / 1.15].map((v) => (
+            <text key={v} x={MARGIN.left - 8} y={yr(v)} dy="0.32em" textAnchor="end" fontSize={11} fill={PLOT_COLOURS.axis}>
+              {v > 0 ? '+' : '−'}
+              {formatQuantity(Math.abs(v), 2)}
+            </text>
+          ))}
+          <text x={MARGIN.left - 8} y={yr(0)} dy="0.32em" textAnchor="end" fontSize={11} fill={PLOT_COLOURS.axis}>
+            0
+          </text>
+          <text x={MARGIN.left + 6} y={stripTop + 13} fontSize={11} fill={PLOT_COLOURS.axis}>
+            ln residual of the window’s readings
+          </text>
+          <path d={residualPath} clipPath={`url(#${clipId}-strip)`} stroke={PLOT_COLOURS.inWindow} strokeWidth={4} strokeLinecap="round" data-testid="residuals" />
+          <text x={MARGIN.left + plotWidth / 2} y={TOTAL_HEIGHT - 10} textAnchor="middle" fontSize={12} fill={PLOT_COLOURS.axis}>
+            Time since the test start ({unitLabel})
+          </text>
+
+          {/* Pointer surface: draw a window, drag its edges or move it; Shift + drag pans. */}
+          <rect
+            x={MARGIN.left}
+            y={MARGIN.top}
+            width={plotWidth}
+            height={MAIN_HEIGHT}
+            fill="transparent"
+            style={{ cursor }}
+            onPointerDown={onPointerDown}
+            onPointerMove={onPointerMove}
+            onPointerUp={endDrag}
+            onPointerCancel={endDrag}
+            data-testid="plot-surface"
+          />
+          {window && onWindowChange
+            ? (['from', 'to'] as const).map((edge) => {
+                const seconds = edge === 'from' ? window.fromSeconds : window.toSeconds;
+                const px = x(seconds);
+                if (px < MARGIN.left - 1 || px > MARGIN.left + plotWidth + 1) return null;
+                return (
+                  <rect
+                    key={edge}
+                    x={px - 5}
+                    y={MARGIN.top + MAIN_HEIGHT / 2 - 16}
+                    width={10}
+                    height={32}
+                    rx={3}
+                    fill="white"
+                    stroke={PLOT_COLOURS.band}
+                    strokeWidth={1.5}
+                    tabIndex={0}
+                    role="slider"
+                    aria-label={edge === 'from' ? 'Window start' : 'Window end'}
+                    aria-valuemin={0}
+                    aria-valuemax={Number((fullDomain[1] / per).toPrecision(6))}
+                    aria-valuenow={Number((seconds / per).toPrecision(6))}
+                    aria-valuetext={fmtT(seconds)}
+                    aria-orientation="horizontal"
+                    onKeyDown={nudge(edge)}
+                    style={{ cursor: 'ew-resize', pointerEvents: 'none' }}
+                    className="focus:outline-none focus-visible:stroke-[3]"
+                  />
+                );
+              })
+            : null}
+        </svg>
+      </div>
+      <ul className="flex flex-wrap gap-x-4 gap-y-1 text-xs text-slate-600" aria-label="Legend">
+        <li className="flex items-center gap-1.5">
+          <span className="inline-block size-2.5 rounded-full" style={{ background: PLOT_COLOURS.inWindow }} aria-hidden="true" />
+          Readings in the window
+        </li>
+        <li className="flex items-center gap-1.5">
+          <span className="inline-block size-2.5 rounded-full" style={{ background: PLOT_COLOURS.outside }} aria-hidden="true" />
+          Other readings
+        </li>
+        <li className="flex items-center gap-1.5">
+          <span className="inline-block h-0.5 w-4" style={{ background: PLOT_COLOURS.line }} aria-hidden="true" />
+          Fitted line
+        </li>
+        <li className="flex items-center gap-1.5">
+          <span className="inline-block h-2.5 w-4 border border-dashed" style={{ borderColor: PLOT_COLOURS.band, background: 'rgba(23,115,107,0.1)' }} aria-hidden="true" />
+          Fitting window
+        </li>
+        <li className="flex items-center gap-1.5">
+          <span className="inline-block h-2.5 w-4" style={{ background: 'rgba(245,158,11,0.25)' }} aria-hidden="true" />
+          Recommended range
+        </li>
+      </ul>
+      {onWindowChange ? (
+        <p className="text-xs text-slate-500">
+          Drag across the plot to draw the fitting window; drag its edges to adjust it, or inside it to move it. Shift + drag or the mouse wheel
+          pans and zooms the time axis.
+        </p>
+      ) : null}
+    </div>
+  );
+}

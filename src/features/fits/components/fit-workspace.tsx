@@ -1,0 +1,463 @@
+import { useMemo, useState, type ReactNode } from 'react';
+import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { useNavigate } from 'react-router-dom';
+import type { FitSettings } from '@shared/hydraulics/analyze';
+import { FIT_LINES, FIT_METHODS, type FitLine, type FitMethod, type FitWindow } from '@shared/hydraulics/fitting';
+import { MATERIALS, type MaterialId } from '@shared/hydraulics/materials';
+import { LATE_SEGMENT } from '@shared/hydraulics/qc';
+import type { Fit, FitBody } from '@shared/schemas/fits';
+import type { Series } from '@shared/schemas/records';
+import type { Site } from '@shared/schemas/sites';
+import { isKUnit, type KUnit } from '@shared/units/conductivity';
+import { Alert } from '@/components/ui/alert';
+import { Button } from '@/components/ui/button';
+import { Card, CardBody, CardHeader } from '@/components/ui/card';
+import { CheckboxField, SelectField, TextAreaField } from '@/components/ui/field';
+import { FormError } from '@/components/ui/form-error';
+import { useToast } from '@/components/ui/toast';
+import { isApiError } from '@/lib/api-client';
+import { describeError } from '@/lib/errors';
+import { useSessionState } from '@/lib/use-session-state';
+import { createFit, fitKeys, invalidateFit, updateFit, type ReducedDto } from '../api';
+import { defaultKUnit } from '../format';
+import {
+  draftFromGeometry,
+  geometryFieldOf,
+  geometryFromDraft,
+  geometryUnitsFor,
+  type GeometryDraft,
+  type GeometryErrors,
+} from '../geometry-form';
+import { defaultTimeUnit, PLOT_TIME_UNITS, type PlotTimeUnit, type TimeRange } from '../plot-math';
+import { residuals, runPreview, toReducedRecord, viewFromPreview, viewFromStored, windowFilter, type ResultView } from '../preview';
+import { Cautions } from './cautions';
+import { FitActions } from './fit-actions';
+import { FitPlot } from './fit-plot';
+import { FitResults } from './fit-results';
+import { GeometryFields } from './geometry-fields';
+import { QcFlagList } from './qc-flags';
+import { WindowFields } from './window-fields';
+
+interface Inputs {
+  method: FitMethod;
+  line: FitLine;
+  window: FitWindow | null;
+  geometry: GeometryDraft;
+  allowOscillation: boolean;
+  material: MaterialId | '';
+  note: string;
+}
+
+function initialInputs(fit: Fit | null, reduced: ReducedDto, site: WorkspaceSite): Inputs {
+  const units = geometryUnitsFor(site.displayUnits);
+  if (!fit) {
+    return {
+      method: 'hvorslev',
+      line: 'anchored',
+      window: null,
+      geometry: draftFromGeometry(reduced.defaultGeometry, units),
+      allowOscillation: false,
+      material: '',
+      note: '',
+    };
+  }
+  return {
+    method: fit.method,
+    line: fit.line,
+    window: fit.windowInput,
+    geometry: draftFromGeometry(fit.geometry, units),
+    allowOscillation: fit.options.allowOscillation,
+    material: (MATERIALS.find((m) => m.id === fit.options.material)?.id ?? '') as MaterialId | '',
+    note: fit.note,
+  };
+}
+
+/** What the workspace needs of the site: its id and display units. */
+type WorkspaceSite = Pick<Site, 'id' | 'displayUnits'>;
+
+const isPlotTimeUnit = (v: string): v is PlotTimeUnit => PLOT_TIME_UNITS.some((u) => u.id === v);
+
+interface SaveErrors {
+  geometry: GeometryErrors;
+  window?: string;
+  message?: string;
+}
+
+/** Server `fields` onto the inputs they are about; what is left goes above the Save button. */
+function saveErrorsFrom(error: unknown): SaveErrors {
+  const out: SaveErrors = { geometry: {} };
+  if (!isApiError(error)) return { ...out, message: describeError(error) };
+  const rest: string[] = [];
+  for (const [path, message] of Object.entries(error.fields ?? {})) {
+    const g = geometryFieldOf(path);
+    if (g) out.geometry[g] = message;
+    else if (path === 'window' || path.startsWith('window.')) out.window = message;
+    else rest.push(message);
+  }
+  if (rest.length > 0 || (!out.window && Object.keys(out.geometry).length === 0)) out.message = rest.length > 0 ? rest.join(' ') : error.message;
+  return out;
+}
+
+export function FitWorkspace({
+  site,
+  reduced,
+  series,
+  fit,
+  aside,
+}: {
+  site: WorkspaceSite;
+  reduced: ReducedDto;
+  series: Series;
+  fit: Fit | null;
+  /** Shown under the plot: the audit trail and revisions of a saved fit. */
+  aside?: ReactNode;
+}) {
+  const navigate = useNavigate();
+  const queryClient = useQueryClient();
+  const toast = useToast();
+  const units = useMemo(() => geometryUnitsFor(site.displayUnits), [site.displayUnits]);
+  const baseline = useMemo(() => initialInputs(fit, reduced, site), [fit, reduced, site]);
+  const [inputs, setInputs] = useState<Inputs>(baseline);
+  const [revising, setRevising] = useState(false);
+  const [saveErrors, setSaveErrors] = useState<SaveErrors>({ geometry: {} });
+  const set = (patch: Partial<Inputs>) => {
+    setInputs((current) => ({ ...current, ...patch }));
+    setSaveErrors({ geometry: {} });
+  };
+
+  const [kUnit, setKUnit] = useSessionState<KUnit>(`kfield.kUnit.${site.id}`, defaultKUnit(site.displayUnits), isKUnit);
+  const record = useMemo(() => toReducedRecord(reduced), [reduced]);
+  const lastSeconds = reduced.elapsedSeconds.length > 0 ? reduced.elapsedSeconds[reduced.elapsedSeconds.length - 1] : 0;
+  const [timeUnit, setTimeUnit] = useSessionState<PlotTimeUnit>(`kfield.timeUnit.${reduced.recordId}`, defaultTimeUnit(lastSeconds), isPlotTimeUnit);
+
+  const editable = fit === null || fit.can.edit || revising;
+  const dirty = JSON.stringify(inputs) !== JSON.stringify(baseline);
+
+  const parsed = useMemo(() => geometryFromDraft(inputs.geometry, units, inputs.method), [inputs.geometry, units, inputs.method]);
+  const settings = useMemo<FitSettings | null>(
+    () =>
+      parsed.geometry
+        ? {
+            method: inputs.method,
+            line: inputs.line,
+            geometry: parsed.geometry,
+            window: inputs.window ?? undefined,
+            allowOscillation: inputs.allowOscillation,
+            slugVolumeM3: reduced.slugVolumeM3 ?? undefined,
+            material: inputs.material || undefined,
+          }
+        : null,
+    [parsed.geometry, inputs.method, inputs.line, inputs.window, inputs.allowOscillation, inputs.material, reduced.slugVolumeM3],
+  );
+  const preview = useMemo(() => (settings ? runPreview(record, settings) : null), [record, settings]);
+
+  const showStored = fit !== null && !dirty;
+  const view = useMemo<ResultView | null>(
+    () =>
+      showStored ? viewFromStored(fit) : preview?.kind === 'ok' ? viewFromPreview(preview.result, record, reduced.slugVolumeM3) : null,
+    [showStored, fit, preview, record, reduced.slugVolumeM3],
+  );
+
+  const engineGeometryErrors: GeometryErrors = {};
+  let engineWindowError: string | undefined;
+  let engineMessage: string | undefined;
+  if (!showStored && preview?.kind === 'input-error') {
+    const g = geometryFieldOf(preview.field);
+    if (g) engineGeometryErrors[g] = preview.message.replace(/^geometry\.\w+: /, '');
+    else if (preview.field.startsWith('fit.window')) engineWindowError = `The window ${preview.message.replace(/^fit\.window[.\w]*: /, '')}`;
+    else engineMessage = preview.message;
+  }
+  const geometryErrors = { ...parsed.errors, ...engineGeometryErrors, ...saveErrors.geometry };
+  const windowError = saveErrors.window ?? engineWindowError;
+
+  const inWindow = useMemo(() => {
+    if (view) return windowFilter(inputs.window, view, inputs.method);
+    if (inputs.window?.kind === 'time') {
+      const w = inputs.window;
+      return (t: number) => t >= w.fromSeconds && t <= w.toSeconds;
+    }
+    return () => false;
+  }, [view, inputs.window, inputs.method]);
+  const residualSeries = useMemo(() => (view ? residuals(record, view, inWindow) : null), [record, view, inWindow]);
+  const band: TimeRange | null =
+    inputs.window?.kind === 'time' ? inputs.window : view ? { fromSeconds: view.window.fromSeconds, toSeconds: view.window.toSeconds } : null;
+
+  const body = (): FitBody | null => {
+    if (!parsed.geometry) return null;
+    return {
+      method: inputs.method,
+      line: inputs.line,
+      ...(inputs.window ? { window: inputs.window } : {}),
+      geometry: parsed.geometry,
+      options: { allowOscillation: inputs.allowOscillation, ...(inputs.material ? { material: inputs.material } : {}) },
+      note: inputs.note,
+    };
+  };
+
+  const save = useMutation({
+    // A change sends `window: null` to return to the method's default window.
+    mutationFn: (b: FitBody) => (fit ? updateFit(fit.id, { ...b, window: inputs.window }) : createFit(reduced.recordId, b)),
+    onSuccess: async (saved) => {
+      queryClient.setQueryData(fitKeys.detail(saved.id), saved);
+      await invalidateFit(queryClient, saved, fit?.id);
+      if (!fit) toast.success('Fit saved as a Draft.');
+      else if (saved.id !== fit.id) toast.success(`Revision ${saved.revision} started; the Checked revision ${fit.revision} stays as it was.`);
+      else toast.success('Changes saved.');
+      setRevising(false);
+      if (!fit || saved.id !== fit.id) navigate(`/sites/${site.id}/fits/${saved.id}`, { replace: !fit });
+    },
+    onError: (error) => setSaveErrors(saveErrorsFrom(error)),
+  });
+
+  const onSave = () => {
+    const b = body();
+    if (b) save.mutate(b);
+  };
+
+  const concave = view?.flags.some((f) => f.code === 'concave-upward') ?? false;
+  const oscillationFlag = !showStored && preview?.kind === 'oscillating' ? preview.flag : null;
+  const oscillationOverridden = inputs.allowOscillation && (view?.flags.some((f) => f.code === 'oscillation') ?? false);
+  const saveBlocked = !parsed.geometry || (!showStored && preview?.kind !== 'ok');
+
+  const resultHeading = showStored ? (
+    <p className="text-xs text-slate-600">
+      Stored result, computed by the server on all {reduced.readings.toLocaleString()} readings.
+    </p>
+  ) : (
+    <p className="text-xs text-slate-600">
+      Preview computed in your browser
+      {reduced.decimated
+        ? ` on ${reduced.elapsedSeconds.length.toLocaleString()} of ${reduced.readings.toLocaleString()} readings; the saved result is computed on all readings.`
+        : ` on all ${reduced.readings.toLocaleString()} readings.`}
+    </p>
+  );
+
+  return (
+    <div className="grid min-w-0 gap-6 lg:grid-cols-[minmax(0,1fr)_24rem]">
+      <div className="min-w-0 space-y-6">
+        <Card aria-labelledby="fit-plot-title">
+          <CardHeader
+            titleId="fit-plot-title"
+            title="Normalized head against time"
+            description={`${series.plottable.toLocaleString()} readings from the test start (${series.elapsedSeconds.length.toLocaleString()} drawn)${
+              series.omitted > 0 ? `; ${series.omitted.toLocaleString()} before the start or at static not drawn on the log axis` : ''
+            }.`}
+          />
+          <CardBody>
+            {series.elapsedSeconds.length === 0 ? (
+              <Alert tone="warning">This record has no readings above static after the test start, so there is nothing to draw on a log axis.</Alert>
+            ) : (
+              <FitPlot
+                elapsedSeconds={series.elapsedSeconds}
+                normalizedHead={series.normalizedHead}
+                method={inputs.method}
+                window={band}
+                onWindowChange={editable ? (range) => set({ window: { kind: 'time', ...range } }) : undefined}
+                inWindow={inWindow}
+                line={
+                  view
+                    ? {
+                        intercept: view.intercept,
+                        slopePerSecond: view.slopePerSecond,
+                        lineCrossingSeconds: view.lineCrossingSeconds,
+                        recordCrossingSeconds: view.recordCrossingSeconds,
+                        anchored: inputs.line === 'anchored',
+                      }
+                    : null
+                }
+                residuals={residualSeries}
+                timeUnit={timeUnit}
+                onTimeUnitChange={setTimeUnit}
+                label={`Semi-log plot of H/H0 against time${view ? `, T0 ${view.t0Seconds.toPrecision(3)} s` : ''}`}
+              />
+            )}
+            {reduced.decimated && !showStored ? (
+              <p className="mt-2 text-xs text-slate-600">
+                Preview on {reduced.elapsedSeconds.length.toLocaleString()} of {reduced.readings.toLocaleString()} readings; the saved result is computed on all
+                readings.
+              </p>
+            ) : null}
+          </CardBody>
+        </Card>
+        {aside}
+      </div>
+
+      <div className="min-w-0 space-y-6">
+        <Card aria-labelledby="fit-method-title">
+          <CardHeader titleId="fit-method-title" title="Method and window" />
+          <CardBody className="space-y-4">
+            <div className="grid grid-cols-2 gap-3">
+              <SelectField label="Method" value={inputs.method} onChange={(e) => set({ method: e.target.value as FitMethod })} disabled={!editable}>
+                {FIT_METHODS.map((m) => (
+                  <option key={m.id} value={m.id}>
+                    {m.label}
+                  </option>
+                ))}
+              </SelectField>
+              <SelectField label="Line" value={inputs.line} onChange={(e) => set({ line: e.target.value as FitLine })} disabled={!editable}>
+                {FIT_LINES.map((l) => (
+                  <option key={l.id} value={l.id}>
+                    {l.id === 'anchored' ? 'Anchored (1 at t = 0)' : 'Free (intercept fitted)'}
+                  </option>
+                ))}
+              </SelectField>
+            </div>
+            <p className="-mt-2 text-xs text-slate-500">{FIT_LINES.find((l) => l.id === inputs.line)?.label}</p>
+            {concave && inputs.line === 'anchored' && editable ? (
+              <Alert tone="warning" title="Early data are concave upward">
+                <p>A free line over the later segment is suggested (a double straight line, often filter-pack drainage).</p>
+                <Button
+                  variant="secondary"
+                  size="sm"
+                  className="mt-2"
+                  onClick={() => set({ line: 'free', window: { kind: 'head', upper: LATE_SEGMENT.upper, lower: LATE_SEGMENT.lower } })}
+                >
+                  Fit a free line over H/H0 {LATE_SEGMENT.upper}–{LATE_SEGMENT.lower}
+                </Button>
+              </Alert>
+            ) : null}
+            <WindowFields
+              window={inputs.window}
+              resolved={view ? view.window : null}
+              method={inputs.method}
+              timeUnit={timeUnit}
+              onChange={(window) => set({ window })}
+              readOnly={!editable}
+              error={windowError}
+            />
+            {oscillationFlag || oscillationOverridden || inputs.allowOscillation ? (
+              <div className="space-y-2">
+                {oscillationFlag ? (
+                  <Alert tone="error" title="The record oscillates">
+                    <p>{oscillationFlag.message}</p>
+                    {oscillationFlag.suggestion ? <p className="mt-1">{oscillationFlag.suggestion}</p> : null}
+                  </Alert>
+                ) : null}
+                <CheckboxField
+                  label="Fit anyway (overdamped methods do not apply)"
+                  checked={inputs.allowOscillation}
+                  onChange={(e) => set({ allowOscillation: e.target.checked })}
+                  disabled={!editable}
+                  hint="The oscillation flag stays on the fit for the Checker."
+                />
+              </div>
+            ) : null}
+          </CardBody>
+        </Card>
+
+        <Card aria-labelledby="fit-result-title">
+          <CardHeader titleId="fit-result-title" title="Result" />
+          <CardBody className="space-y-4">
+            {view ? (
+              <FitResults
+                view={view}
+                kUnit={kUnit}
+                onKUnitChange={setKUnit}
+                units={units}
+                timeUnit={timeUnit}
+                anchored={inputs.line === 'anchored'}
+                heading={resultHeading}
+              />
+            ) : (
+              <Alert tone="warning" title="No result yet">
+                {!parsed.geometry
+                  ? 'Complete the geometry to compute K.'
+                  : oscillationFlag
+                    ? 'The record oscillates; tick “Fit anyway” to fit it regardless.'
+                    : (engineMessage ?? engineWindowError ?? Object.values(engineGeometryErrors)[0] ?? 'Adjust the inputs to compute K.')}
+              </Alert>
+            )}
+            {view ? (
+              <div className="space-y-2">
+                <h3 className="text-sm font-semibold text-slate-900">QC flags</h3>
+                <QcFlagList flags={view.flags} />
+              </div>
+            ) : null}
+            <Cautions className="border-t border-slate-200 pt-3" />
+          </CardBody>
+        </Card>
+
+        <Card aria-labelledby="fit-geometry-title">
+          <CardHeader
+            titleId="fit-geometry-title"
+            title="Geometry"
+            description={fit ? 'As used for this fit.' : 'From the well; changes apply to this fit only.'}
+          />
+          <CardBody className="space-y-4">
+            <GeometryFields
+              draft={inputs.geometry}
+              onChange={(geometry) => set({ geometry })}
+              units={units}
+              method={inputs.method}
+              errors={geometryErrors}
+              readOnly={!editable}
+              onReset={() => set({ geometry: draftFromGeometry(reduced.defaultGeometry, units) })}
+            />
+            <SelectField
+              label="Material of the screened unit"
+              value={inputs.material}
+              onChange={(e) => set({ material: e.target.value as MaterialId | '' })}
+              disabled={!editable}
+              hint={reduced.hydroUnit ? `The well’s unit: ${reduced.hydroUnit}. K is compared with the material’s range.` : 'K is compared with the material’s range.'}
+            >
+              <option value="">Not stated</option>
+              {MATERIALS.map((m) => (
+                <option key={m.id} value={m.id}>
+                  {m.label}
+                </option>
+              ))}
+            </SelectField>
+            <TextAreaField
+              label="Note"
+              value={inputs.note}
+              onChange={(e) => set({ note: e.target.value })}
+              readOnly={!editable}
+              maxLength={2000}
+              hint="Kept with the fit; the Checker reads it."
+            />
+          </CardBody>
+        </Card>
+
+        <Card aria-labelledby="fit-save-title">
+          <CardHeader titleId="fit-save-title" title={fit ? 'Save and check' : 'Save'} />
+          <CardBody className="space-y-3">
+            <FormError message={saveErrors.message} />
+            {editable ? (
+              <div className="flex flex-wrap items-center gap-2">
+                <Button onClick={onSave} pending={save.isPending} disabled={saveBlocked || (fit !== null && !dirty)}>
+                  {fit === null ? 'Save fit' : revising ? `Save as revision ${fit.revision + 1}` : 'Save changes'}
+                </Button>
+                {fit !== null && dirty ? (
+                  <Button variant="ghost" onClick={() => setInputs(baseline)} disabled={save.isPending}>
+                    Discard changes
+                  </Button>
+                ) : null}
+                {revising ? (
+                  <Button
+                    variant="ghost"
+                    onClick={() => {
+                      setInputs(baseline);
+                      setRevising(false);
+                    }}
+                  >
+                    Cancel the revision
+                  </Button>
+                ) : null}
+              </div>
+            ) : fit?.can.revise ? (
+              <div className="space-y-1">
+                <Button variant="secondary" onClick={() => setRevising(true)}>
+                  Start a revision
+                </Button>
+                <p className="text-xs text-slate-600">A Checked fit is not changed: saving starts revision {fit.revision + 1}, and this one stays readable.</p>
+              </div>
+            ) : (
+              <p className="text-sm text-slate-600">This fit is read-only for you.</p>
+            )}
+            {fit ? <FitActions fit={fit} dirty={dirty} /> : <p className="text-xs text-slate-600">A saved fit is a Draft until you submit it for check.</p>}
+          </CardBody>
+        </Card>
+      </div>
+    </div>
+  );
+}

@@ -1,0 +1,108 @@
+import type { FitMethod } from '@shared/hydraulics/fitting';
+import { effectiveCasingRadius } from '@shared/hydraulics/geometry';
+import { lengthToSi } from '@shared/units/length';
+import { Button } from '@/components/ui/button';
+import { CheckboxField, SelectField, TextField } from '@/components/ui/field';
+import { formatLengthIn } from '../format';
+import {
+  geometryFieldLabel,
+  parseNumber,
+  unitOfField,
+  type GeometryDraft,
+  type GeometryErrors,
+  type GeometryField,
+  type GeometryUnits,
+} from '../geometry-form';
+
+interface Props {
+  draft: GeometryDraft;
+  onChange: (draft: GeometryDraft) => void;
+  units: GeometryUnits;
+  method: FitMethod;
+  errors: GeometryErrors;
+  readOnly: boolean;
+  onReset?: () => void;
+}
+
+/** √((1 − n) rc² + n rw²) as typed so far, or null while a number is missing. */
+function effectiveRadiusText(draft: GeometryDraft, units: GeometryUnits): string | null {
+  const rc = parseNumber(draft.casingRadius);
+  const rw = parseNumber(draft.boreholeRadius);
+  const n = parseNumber(draft.filterPackPorosity);
+  if (typeof rc !== 'number' || typeof rw !== 'number' || typeof n !== 'number' || !(rc > 0) || !(rw > 0) || !(n > 0 && n < 1)) return null;
+  const r = effectiveCasingRadius(lengthToSi(rc, units.radius), lengthToSi(rw, units.radius), n).radiusM;
+  return formatLengthIn(r, units.radius, 4);
+}
+
+export function GeometryFields({ draft, onChange, units, method, errors, readOnly, onReset }: Props) {
+  const set = (patch: Partial<GeometryDraft>) => onChange({ ...draft, ...patch });
+  const field = (name: GeometryField, hint?: string) => {
+    const unit = unitOfField(name, units);
+    return (
+      <TextField
+        label={`${geometryFieldLabel(name)}${unit ? ` (${unit})` : ''}`}
+        value={draft[name]}
+        onChange={(e) => set({ [name]: e.target.value })}
+        inputMode="decimal"
+        autoComplete="off"
+        readOnly={readOnly}
+        error={errors[name]}
+        hint={hint}
+        name={name}
+      />
+    );
+  };
+  const effective = draft.inFilterPack ? effectiveRadiusText(draft, units) : null;
+  return (
+    <fieldset className="space-y-3">
+      <legend className="sr-only">Geometry</legend>
+      <div className="grid grid-cols-2 gap-3">
+        {field('casingRadius', 'where the level moves')}
+        {field('screenRadius')}
+        {field('boreholeRadius', 'filter pack')}
+        {field('screenLength', method === 'bouwer-rice' ? 'Le' : 'L')}
+      </div>
+      <div className="grid grid-cols-2 gap-3">
+        <SelectField
+          label="Intake radius"
+          value={draft.intake}
+          onChange={(e) => set({ intake: e.target.value as GeometryDraft['intake'] })}
+          disabled={readOnly}
+        >
+          <option value="screen">Screen radius</option>
+          <option value="borehole">Borehole radius</option>
+        </SelectField>
+        {field('anisotropyRatio', '1 when isotropic')}
+      </div>
+      {method === 'bouwer-rice' ? (
+        <div className="grid grid-cols-2 gap-3">
+          {field('staticToScreenBottom', 'Lw')}
+          {field('saturatedThickness', 'D; enter Lw when fully penetrating')}
+        </div>
+      ) : null}
+      <CheckboxField
+        label="Water level moves within the filter pack"
+        checked={draft.inFilterPack}
+        onChange={(e) => set({ inFilterPack: e.target.checked })}
+        disabled={readOnly}
+        hint="Uses the effective casing radius √((1 − n) rc² + n rw²)"
+      />
+      {draft.inFilterPack ? (
+        <div className="grid grid-cols-2 items-start gap-3">
+          {field('filterPackPorosity', 'n, between 0 and 1')}
+          <div className="space-y-1.5 text-sm">
+            <p className="font-medium text-slate-800">Effective casing radius</p>
+            <p className="py-2 text-slate-900 tabular-nums" data-testid="effective-casing-radius">
+              {effective ?? '—'}
+            </p>
+          </div>
+        </div>
+      ) : null}
+      {onReset && !readOnly ? (
+        <Button variant="ghost" size="sm" onClick={onReset}>
+          Use the well’s values
+        </Button>
+      ) : null}
+    </fieldset>
+  );
+}
