@@ -267,21 +267,13 @@ describe('wells: change and delete', () => {
     await analyst.delete(`/api/wells/${a.id}`).expect(204);
     expect((await analyst.get(`/api/wells/${a.id}`)).status).toBe(404);
     const b = (await analyst.post(`/api/sites/${siteId}/wells`, wellBody({ name: 'B' })).expect(201)).body;
-    const hasRecordsTable = (await ts.ds.query(`SELECT name FROM sqlite_master WHERE type = 'table' AND name = 'records'`)).length > 0;
-    if (hasRecordsTable) {
-      // Records are part of the schema: a record is added through their own API (tested with records).
-      return;
-    }
-    await ts.ds.query(`CREATE TABLE "records" ("id" varchar PRIMARY KEY NOT NULL, "wellId" varchar NOT NULL)`);
-    try {
-      await ts.ds.query(`INSERT INTO "records" ("id", "wellId") VALUES (?, ?)`, ['r1', b.id]);
-      const r = await analyst.delete(`/api/wells/${b.id}`);
-      expect(r.status).toBe(409);
-      expect(r.body.error.message).toMatch(/Well B has 1 record/);
-      expect((await analyst.get(`/api/wells/${b.id}`)).status).toBe(200);
-    } finally {
-      await ts.ds.query(`DROP TABLE "records"`);
-    }
+    // Invented tape readings: depth to water below the measuring point, in metres.
+    const readings = [[0, 4.2], [5, 3.6], [10, 3.2], [20, 2.95], [40, 2.85], [80, 2.81]].map(([time, depth]) => ({ time, depth }));
+    await analyst.post(`/api/wells/${b.id}/records`, { testType: 'slug-out', readings, timeFormat: 's', units: 'm', static: 2.8 }).expect(201);
+    const r = await analyst.delete(`/api/wells/${b.id}`);
+    expect(r.status).toBe(409);
+    expect(r.body.error.message).toMatch(/Well B has 1 record; delete it first/);
+    expect((await analyst.get(`/api/wells/${b.id}`)).status).toBe(200);
   });
 
   it("re-expresses the wells when the site changes its system, and refuses a system they fall outside", async () => {
