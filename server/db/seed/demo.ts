@@ -7,6 +7,7 @@ import { lookupCrs } from '../../features/sites/crs';
 import { Membership } from '../../features/sites/membership.entity';
 import { Site } from '../../features/sites/site.entity';
 import { User } from '../../features/users/user.entity';
+import { seedDemoRecords } from './demo-records';
 import { seedDemoWells } from './demo-wells';
 
 /** Everything below is invented for the demo: no real site, person or data. */
@@ -43,6 +44,7 @@ export async function seedDemoIfEmpty(ds: DataSource, config: Config): Promise<b
       );
       if (u.role) await m.getRepository(Membership).insert({ siteId: site.id, userId: user.id, role: u.role });
     }
+    await seedDemoRecords(m, site);
   });
   // Fits go through the fit service (its own transactions), after the records exist.
   await seedDemoFits(ds, config);
