@@ -17,6 +17,8 @@ import { buildOpenApi } from './lib/openapi';
 import { mountRoutes, type MountedRoute, type RouteDef } from './lib/route';
 import { authRoutes } from './features/auth/auth.router';
 import { createAuthService } from './features/auth/auth.service';
+import { basemapApiRoutes, basemapTileRoutes } from './features/basemaps/basemaps.router';
+import { createBasemapsService } from './features/basemaps/basemaps.service';
 import type { Mailer } from './features/mail/mailer';
 import { fitsRoutes } from './features/fits/fits.router';
 import { mapRoutes } from './features/map/map.router';
@@ -72,6 +74,16 @@ export function createApp({ config, ds, mailer, log = (m, e) => console.error(m,
     }),
   );
 
+  // Tiles, glyphs and styles are public, hot and cookie-free: served ahead of the session middleware.
+  const basemaps = createBasemapsService(ctx, (m) => log(m, ''));
+  const tileMounted: MountedRoute[] = [];
+  const tiles = express.Router();
+  mountRoutes(tiles, ctx, basemapTileRoutes(ctx, basemaps), tileMounted);
+  app.use(tiles);
+  app.use('/tiles', (req) => {
+    throw new AppError('NOT_FOUND', `No tile route ${req.method} ${req.originalUrl}`, 404);
+  });
+
   const store = new SqliteSessionStore(ds, config.SESSION_IDLE_SECONDS * 1000);
   const pp = createPassport(ctx);
 
@@ -122,9 +134,10 @@ export function createApp({ config, ds, mailer, log = (m, e) => console.error(m,
     ...recordsRoutes(ctx),
     ...fitsRoutes(ctx),
     ...mapRoutes(ctx),
+    ...basemapApiRoutes(ctx, basemaps),
     ...adminRoutes(ctx, store, auth.sendReset),
   ];
-  const routes: MountedRoute[] = [];
+  const routes: MountedRoute[] = [...tileMounted];
   const api = express.Router();
   mountRoutes(api, ctx, defs, routes);
   const openapi = buildOpenApi(routes, VERSION);
@@ -142,5 +155,11 @@ export function createApp({ config, ds, mailer, log = (m, e) => console.error(m,
   }
 
   app.use(errorMiddleware(log));
-  return { app, routes, store, close: () => store.close() };
+  return {
+    app, routes, store,
+    close: () => {
+      store.close();
+      basemaps.close();
+    },
+  };
 }

@@ -36,6 +36,12 @@ export const configSchema = z.object({
   CLIENT_DIST: z.string().default('dist/client'),
   /** Largest logger or barometric file accepted by a record upload, in MB; a larger one gets 413. */
   RECORD_MAX_UPLOAD_MB: z.coerce.number({ error: 'must be a number of megabytes' }).positive('must be greater than 0').max(2048, 'must be at most 2048').default(100),
+  /** The built basemap (basemap.mbtiles) and glyphs, written by npm run tiles. */
+  TILES_DIST: z.string().min(1).default('tiles/dist'),
+  /** Where uploaded basemaps are kept; empty means a basemaps folder beside DATABASE_PATH. */
+  BASEMAP_DIR: z.string().default(''),
+  /** Largest MBTiles file a basemap upload accepts, in MB; a larger one gets 413. */
+  BASEMAP_MAX_UPLOAD_MB: z.coerce.number({ error: 'must be a number of megabytes' }).positive('must be greater than 0').max(65536, 'must be at most 65536').default(2048),
 });
 
 export type Config = z.infer<typeof configSchema>;

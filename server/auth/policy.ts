@@ -124,6 +124,18 @@ export const policyTable: Record<string, PolicyRule> = {
   'POST /api/admin/users/:userId/reset': ADMIN,
   'GET /api/admin/outbox': ADMIN,
   'DELETE /api/admin/outbox': ADMIN,
+
+  // Basemaps: tiles, glyphs and styles are public so that viewer-link pages can draw them.
+  'GET /tiles/style.json': PUBLIC,
+  'GET /tiles/glyphs/:fontstack/:range.pbf': PUBLIC,
+  'GET /tiles/:z/:x/:y.pbf': PUBLIC,
+  'GET /tiles/:basemapId/style.json': PUBLIC,
+  'GET /tiles/:basemapId/:z/:x/:y.pbf': PUBLIC,
+  'GET /api/basemaps': SIGNED_IN,
+  'GET /api/admin/basemaps': ADMIN,
+  'POST /api/admin/basemaps': ADMIN,
+  'PATCH /api/admin/basemaps/:basemapId': ADMIN,
+  'DELETE /api/admin/basemaps/:basemapId': ADMIN,
 };
 
 function middlewareFor(rule: PolicyRule): (ctx: AppContext) => RequestHandler {

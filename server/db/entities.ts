@@ -1,5 +1,6 @@
 import { SessionRow } from '../auth/session.entity';
 import { PasswordReset } from '../features/auth/password-reset.entity';
+import { Basemap } from '../features/basemaps/basemap.entity';
 import { FitEventEntity } from '../features/fits/fit-event.entity';
 import { FitEntity } from '../features/fits/fit.entity';
 import { MapVersion } from '../features/map/map-version.entity';
@@ -13,4 +14,4 @@ import { Site } from '../features/sites/site.entity';
 import { User } from '../features/users/user.entity';
 import { Well } from '../features/wells/well.entity';
 
-export const entities = [User, SessionRow, Site, Membership, Invitation, PasswordReset, OutboxMessage, Well, RecordEntity, RecordFile, RecordSeries, FitEntity, FitEventEntity, MapVersion];
+export const entities = [User, SessionRow, Site, Membership, Invitation, PasswordReset, OutboxMessage, Well, RecordEntity, RecordFile, RecordSeries, FitEntity, FitEventEntity, MapVersion, Basemap];

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { basemapIdSchema } from './basemaps';
 import { emailSchema, isoDateTime, siteRoleSchema } from './common';
 
 export const DISPLAY_UNITS = ['SI', 'US'] as const;
@@ -46,6 +47,8 @@ export const sitePatchSchema = z.object({
   epsgCode: epsgCodeSchema.optional(),
   displayUnits: displayUnitsSchema.optional(),
   hydroUnits: hydroUnitsSchema.optional(),
+  /** A basemap id ("default" for the built-in one), or null for the instance default. */
+  basemapId: basemapIdSchema.nullable().optional(),
 });
 export type SitePatch = z.input<typeof sitePatchSchema>;
 
@@ -70,6 +73,10 @@ export const siteSchema = z.object({
   /** The caller's role on this site; null for an Admin who is not a member. */
   myRole: siteRoleSchema.nullable(),
   memberCount: z.number(),
+  /** The basemap the site chose; null means the instance default. */
+  basemapId: z.string().nullable(),
+  /** The style of the basemap the site's maps use (its choice, or the instance default). */
+  basemapStyleUrl: z.string(),
   createdAt: isoDateTime,
 });
 export type Site = z.infer<typeof siteSchema>;

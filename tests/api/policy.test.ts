@@ -58,7 +58,7 @@ function servedRoutes(): string[] {
     }
   };
   walk((ts.kfield.app as unknown as { router: Router }).router.stack);
-  return out.filter((k) => k.includes(' /api/'));
+  return out.filter((k) => k.includes(' /api/') || k.includes(' /tiles/'));
 }
 
 function concretePath(path: string, method = 'GET'): string {
@@ -69,6 +69,13 @@ function concretePath(path: string, method = 'GET'): string {
     .replace(':fitId', fitId)
     .replace(':code', '32632')
     .replace(':token', 'policy-test-token-0000')
+    // A tile of the invented demo area at zoom 14, of the built-in basemap.
+    .replace(':basemapId', 'default')
+    .replace(':z', '14')
+    .replace(':x', '8608')
+    .replace(':y', '5711')
+    .replace(':fontstack', encodeURIComponent('Roboto Flex Regular'))
+    .replace(':range', '0-255')
     .replace(/:[A-Za-z]+Id/g, () => randomUUID());
 }
 

@@ -1,8 +1,9 @@
 import { Foundation1764615600000 } from './1764615600000-foundation';
 import { Wells1764616000000 } from './1764616000000-wells';
 import { Records1764617000000 } from './1764617000000-records';
+import { Basemaps1764618000000 } from './1764618000000-basemaps';
 import { Fits1764619000000 } from './1764619000000-fits';
 import { MapVersions1764620000000 } from './1764620000000-map-versions';
 
 /** Every committed migration, oldest first. */
-export const migrations = [Foundation1764615600000, Wells1764616000000, Records1764617000000, Fits1764619000000, MapVersions1764620000000];
+export const migrations = [Foundation1764615600000, Wells1764616000000, Records1764617000000, Basemaps1764618000000, Fits1764619000000, MapVersions1764620000000];

@@ -27,6 +27,10 @@ export class Site {
   @Column('boolean', { default: false })
   isDemo: boolean;
 
+  /** The chosen basemap: "default" (built-in), an uploaded basemap's id, or null for the instance default. */
+  @Column('varchar', { length: 64, nullable: true })
+  basemapId: string | null;
+
   @CreateDateColumn({ type: 'datetime' })
   createdAt: Date;
 

@@ -4,6 +4,7 @@ import type { SiteRole } from '@shared/schemas/common';
 import type { siteBodySchema, sitePatchSchema, Site as SiteDto } from '@shared/schemas/sites';
 import type { AppContext } from '../../context';
 import { badRequest, notFound } from '../../lib/errors';
+import { basemapExists, siteBasemapStyleUrl } from '../basemaps/basemaps.service';
 import { reexpressSiteWells } from '../wells/wells.service';
 import { lookupCrs } from './crs';
 import { Membership } from './membership.entity';
@@ -31,6 +32,8 @@ export function createSitesService({ ds }: AppContext) {
       hydroUnits: site.hydroUnits,
       myRole,
       memberCount,
+      basemapId: site.basemapId ?? null,
+      basemapStyleUrl: await siteBasemapStyleUrl(ds.manager, site.basemapId ?? null),
       createdAt: site.createdAt.toISOString(),
     };
   }
@@ -67,6 +70,9 @@ export function createSitesService({ ds }: AppContext) {
     if (!site) throw notFound('The site');
     if (patch.epsgCode !== undefined) site.crsName = crsOrThrow(patch.epsgCode).name;
     const reexpress = patch.epsgCode !== undefined && patch.epsgCode !== site.epsgCode;
+    if (patch.basemapId && !(await basemapExists(ds.manager, patch.basemapId))) {
+      throw badRequest(`There is no basemap ${patch.basemapId}`, { basemapId: 'Choose one of the basemaps on this instance' });
+    }
     Object.assign(site, patch);
     await ds.transaction(async (m) => {
       // The wells' site coordinates follow the site's system.

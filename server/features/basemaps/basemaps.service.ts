@@ -1,0 +1,233 @@
+import { randomUUID } from 'node:crypto';
+import fs from 'node:fs';
+import path from 'node:path';
+import type { EntityManager } from 'typeorm';
+import { BUILTIN_BASEMAP_ID, tileStyleUrl } from '@shared/geo/basemap';
+import type { Basemap as BasemapDto, BasemapPatch } from '@shared/schemas/basemaps';
+import type { AppContext } from '../../context';
+import { AppError, badRequest, conflict, notFound } from '../../lib/errors';
+import { Site } from '../sites/site.entity';
+import { Basemap } from './basemap.entity';
+import { genericStyle, kfieldStyle, styleKindOf, type Style } from './basemaps.style';
+import { MbtilesError, MbtilesFile } from './mbtiles';
+
+/** The folder uploaded basemaps live in: BASEMAP_DIR, or a basemaps folder beside the database file. */
+export function basemapDir(config: AppContext['config']): string {
+  return path.resolve(config.BASEMAP_DIR || path.join(path.dirname(path.resolve(config.DATABASE_PATH)), 'basemaps'));
+}
+
+export const builtInMbtilesPath = (config: AppContext['config']) => path.resolve(config.TILES_DIST, 'basemap.mbtiles');
+
+/** Whether a site may choose this basemap id. */
+export async function basemapExists(m: EntityManager, id: string): Promise<boolean> {
+  return id === BUILTIN_BASEMAP_ID || (await m.getRepository(Basemap).exists({ where: { id } }));
+}
+
+/** The style URL a site's maps use: its own choice, else the instance default, else the built-in basemap. */
+export async function siteBasemapStyleUrl(m: EntityManager, chosen: string | null): Promise<string> {
+  if (chosen && (await basemapExists(m, chosen))) return tileStyleUrl(chosen);
+  const def = await m.getRepository(Basemap).findOne({ where: { isDefault: true }, select: { id: true } });
+  return tileStyleUrl(def?.id ?? BUILTIN_BASEMAP_ID);
+}
+
+export type BasemapsService = ReturnType<typeof createBasemapsService>;
+
+/**
+ * The basemaps of this instance: the built-in one from tiles/dist and the uploaded ones. Open
+ * MBTiles handles are cached per id (tile routes must not touch the app database), and dropped
+ * when a basemap is deleted.
+ */
+export function createBasemapsService({ config, ds }: AppContext, log: (msg: string) => void = () => undefined) {
+  const repo = ds.getRepository(Basemap);
+  const dir = basemapDir(config);
+  const open = new Map<string, MbtilesFile | null>();
+  /** Names of uploaded basemaps by id, so tile requests find their file without a query. */
+  const known = new Map<string, Basemap>();
+  let builtInWarned = false;
+
+  function builtIn(): MbtilesFile | null {
+    if (open.has(BUILTIN_BASEMAP_ID)) return open.get(BUILTIN_BASEMAP_ID)!;
+    const file = builtInMbtilesPath(config);
+    if (!fs.existsSync(file)) {
+      if (!builtInWarned) log(`Kfield: the built-in basemap ${file} has not been built; run npm run tiles`);
+      builtInWarned = true;
+      return null;
+    }
+    let f: MbtilesFile | null = null;
+    try {
+      f = MbtilesFile.open(file);
+    } catch (e) {
+      log(`Kfield: the built-in basemap ${file} cannot be read: ${(e as Error).message}`);
+    }
+    open.set(BUILTIN_BASEMAP_ID, f);
+    return f;
+  }
+
+  async function rowOf(id: string): Promise<Basemap | null> {
+    if (known.has(id)) return known.get(id)!;
+    if (!/^[0-9a-f-]{36}$/i.test(id)) return null;
+    const row = await repo.findOne({ where: { id } });
+    if (row) known.set(id, row);
+    return row;
+  }
+
+  /** The open file of a basemap, or null when there is no such basemap (or its file is gone). */
+  async function file(id: string): Promise<MbtilesFile | null> {
+    if (id === BUILTIN_BASEMAP_ID) return builtIn();
+    if (open.has(id)) return open.get(id)!;
+    const row = await rowOf(id);
+    if (!row) return null;
+    let f: MbtilesFile | null = null;
+    try {
+      f = MbtilesFile.open(path.join(dir, row.fileName));
+    } catch (e) {
+      log(`Kfield: basemap ${row.name} (${id}) cannot be read: ${(e as Error).message}`);
+    }
+    open.set(id, f);
+    return f;
+  }
+
+  /** Synchronous lookup for the tile route once a basemap has been opened. */
+  function openFile(id: string): MbtilesFile | null | undefined {
+    return open.get(id);
+  }
+
+  async function siteCounts(): Promise<Map<string, number>> {
+    const rows = (await ds.query('SELECT "basemapId" AS id, COUNT(*) AS n FROM "sites" WHERE "basemapId" IS NOT NULL GROUP BY "basemapId"')) as { id: string; n: number }[];
+    return new Map(rows.map((r) => [r.id, Number(r.n)]));
+  }
+
+  function builtInDto(f: MbtilesFile, isDefault: boolean, count: number): BasemapDto {
+    return {
+      id: BUILTIN_BASEMAP_ID,
+      name: 'Built-in basemap (Natural Earth and the invented demo area)',
+      builtIn: true,
+      isDefault,
+      styleKind: styleKindOf(f.metadata),
+      styleUrl: tileStyleUrl(BUILTIN_BASEMAP_ID),
+      sizeBytes: f.sizeBytes,
+      metadata: f.metadata,
+      createdAt: null,
+      siteCount: count,
+    };
+  }
+
+  function rowDto(row: Basemap, count: number): BasemapDto {
+    return {
+      id: row.id,
+      name: row.name,
+      builtIn: false,
+      isDefault: row.isDefault,
+      styleKind: styleKindOf(row.metadata),
+      styleUrl: tileStyleUrl(row.id),
+      sizeBytes: row.sizeBytes,
+      metadata: row.metadata,
+      createdAt: row.createdAt.toISOString(),
+      siteCount: count,
+    };
+  }
+
+  async function list(): Promise<BasemapDto[]> {
+    const rows = await repo.find({ order: { createdAt: 'ASC' } });
+    const counts = await siteCounts();
+    const b = builtIn();
+    const out: BasemapDto[] = [];
+    if (b) out.push(builtInDto(b, !rows.some((r) => r.isDefault), counts.get(BUILTIN_BASEMAP_ID) ?? 0));
+    return [...out, ...rows.map((r) => rowDto(r, counts.get(r.id) ?? 0))];
+  }
+
+  async function get(id: string): Promise<BasemapDto> {
+    const found = (await list()).find((b) => b.id === id);
+    if (!found) throw notFound('The basemap');
+    return found;
+  }
+
+  /** Check an uploaded file and keep it, or refuse it and keep nothing. */
+  async function upload(upload: { path: string; originalname: string; size: number }, name: string | undefined): Promise<BasemapDto> {
+    let checked: MbtilesFile;
+    try {
+      checked = MbtilesFile.open(upload.path);
+    } catch (e) {
+      fs.rmSync(upload.path, { force: true });
+      if (e instanceof MbtilesError) throw badRequest(e.message, { file: e.message }, 'NOT_VECTOR_MBTILES');
+      throw e;
+    }
+    const metadata = checked.metadata;
+    checked.close();
+    const id = randomUUID();
+    const fileName = `${id}.mbtiles`;
+    const fallbackName = metadata.title || upload.originalname.replace(/\.mbtiles$/i, '') || 'Uploaded basemap';
+    fs.mkdirSync(dir, { recursive: true });
+    const dest = path.join(dir, fileName);
+    fs.renameSync(upload.path, dest);
+    try {
+      await repo.insert({ id, name: (name || fallbackName).slice(0, 120), fileName, sizeBytes: upload.size, metadata, isDefault: false });
+    } catch (e) {
+      fs.rmSync(dest, { force: true });
+      throw e;
+    }
+    return get(id);
+  }
+
+  async function update(id: string, patch: BasemapPatch): Promise<BasemapDto> {
+    if (id === BUILTIN_BASEMAP_ID) {
+      if (!builtIn()) throw notFound('The basemap');
+      if (patch.name !== undefined) throw badRequest('The built-in basemap keeps its name', { name: 'The built-in basemap cannot be renamed' });
+      if (patch.isDefault === false) {
+        throw badRequest('Make another basemap the instance default instead', { isDefault: 'Choose another basemap as the instance default instead' });
+      }
+      // The built-in basemap is the default whenever no uploaded one is.
+      await ds.transaction(async (m) => m.getRepository(Basemap).update({ isDefault: true }, { isDefault: false }));
+      known.clear();
+      return get(id);
+    }
+    const row = await rowOf(id);
+    if (!row) throw notFound('The basemap');
+    await ds.transaction(async (m) => {
+      const r = m.getRepository(Basemap);
+      if (patch.isDefault) await r.update({ isDefault: true }, { isDefault: false });
+      await r.update({ id }, { ...(patch.name !== undefined ? { name: patch.name } : {}), ...(patch.isDefault !== undefined ? { isDefault: patch.isDefault } : {}) });
+    });
+    known.clear();
+    return get(id);
+  }
+
+  async function remove(id: string): Promise<void> {
+    if (id === BUILTIN_BASEMAP_ID) throw conflict('BUILT_IN_BASEMAP', 'The built-in basemap cannot be deleted');
+    const row = await rowOf(id);
+    if (!row) throw notFound('The basemap');
+    await ds.transaction(async (m) => {
+      // Sites that chose it go back to the instance default.
+      await m.getRepository(Site).update({ basemapId: id }, { basemapId: null });
+      await m.getRepository(Basemap).delete({ id });
+    });
+    open.get(id)?.close();
+    open.delete(id);
+    known.delete(id);
+    fs.rmSync(path.join(dir, row.fileName), { force: true });
+  }
+
+  /** The style of a basemap with absolute URLs on the caller's origin and versioned tile URLs. */
+  async function style(id: string, origin: string, glyphVersion: string): Promise<Style> {
+    const f = await file(id);
+    if (!f) throw id === BUILTIN_BASEMAP_ID ? builtInMissing() : notFound('The basemap');
+    const row = id === BUILTIN_BASEMAP_ID ? null : await rowOf(id);
+    const prefix = id === BUILTIN_BASEMAP_ID ? '/tiles' : `/tiles/${encodeURIComponent(id)}`;
+    const urls = {
+      tiles: `${origin}${prefix}/{z}/{x}/{y}.pbf?v=${f.version}`,
+      glyphs: `${origin}/tiles/glyphs/{fontstack}/{range}.pbf?v=${glyphVersion}`,
+    };
+    const name = row?.name ?? 'Kfield';
+    return styleKindOf(f.metadata) === 'kfield' ? kfieldStyle(name, f.metadata, urls) : genericStyle(name, f.metadata, urls);
+  }
+
+  function close(): void {
+    for (const f of open.values()) f?.close();
+    open.clear();
+  }
+
+  return { list, get, upload, update, remove, style, file, openFile, close, dir };
+}
+
+export const builtInMissing = () =>
+  new AppError('BASEMAP_NOT_BUILT', 'The built-in basemap has not been built on this server; run npm run tiles (npm start does it when the files are missing)', 404);
