@@ -1,4 +1,4 @@
-import { useSuspenseQueries } from '@tanstack/react-query';
+import { useSuspenseQueries, useSuspenseQuery } from '@tanstack/react-query';
 import { useParams } from 'react-router-dom';
 import { QueryBoundary } from '@/components/ui/error-boundary';
 import { PageHeader } from '@/components/ui/page-header';
@@ -6,6 +6,7 @@ import { recordMetaQueryOptions, reducedQueryOptions, seriesQueryOptions } from 
 import { FitWorkspace } from '@/features/fits/components/fit-workspace';
 import { recordLabel } from '@/features/fits/components/record-label';
 import { siteQueryOptions } from '@/features/sites/api';
+import { wellQueryOptions } from '@/features/wells/api';
 import { useDocumentTitle } from '@/lib/use-document-title';
 import { siteErrorRenderer } from './site-boundary';
 
@@ -22,6 +23,7 @@ function NewFit({ siteId, recordId }: { siteId: string; recordId: string }) {
   const [{ data: site }, { data: record }, { data: reduced }, { data: series }] = useSuspenseQueries({
     queries: [siteQueryOptions(siteId), recordMetaQueryOptions(recordId), reducedQueryOptions(recordId), seriesQueryOptions(recordId)],
   });
+  const { data: well } = useSuspenseQuery(wellQueryOptions(record.wellId));
   useDocumentTitle(`New fit · ${record.wellName}`);
   return (
     <>
@@ -36,7 +38,7 @@ function NewFit({ siteId, recordId }: { siteId: string; recordId: string }) {
         ]}
         description={`${recordLabel(record)}. Choose the method and the fitting window; K updates as you go. Save to keep the fit as a Draft.`}
       />
-      <FitWorkspace site={site} reduced={reduced} series={series} fit={null} />
+      <FitWorkspace site={site} reduced={reduced} series={series} fit={null} wellFilterPackPorosity={well.filterPackPorosity} />
     </>
   );
 }

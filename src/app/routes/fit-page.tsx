@@ -12,6 +12,7 @@ import { recordLabel } from '@/features/fits/components/record-label';
 import { RevisionsList } from '@/features/fits/components/revisions-list';
 import { defaultKUnit } from '@/features/fits/format';
 import { siteQueryOptions } from '@/features/sites/api';
+import { wellQueryOptions } from '@/features/wells/api';
 import { isApiError } from '@/lib/api-client';
 import { formatDateTime } from '@/lib/format';
 import { useDocumentTitle } from '@/lib/use-document-title';
@@ -43,6 +44,7 @@ function FitPage({ siteId, fitId }: { siteId: string; fitId: string }) {
   const [{ data: site }, { data: record }, { data: reduced }, { data: series }] = useSuspenseQueries({
     queries: [siteQueryOptions(fit.siteId || siteId), recordMetaQueryOptions(fit.recordId), reducedQueryOptions(fit.recordId), seriesQueryOptions(fit.recordId)],
   });
+  const { data: well } = useSuspenseQuery(wellQueryOptions(fit.wellId));
   const method = FIT_METHODS.find((m) => m.id === fit.method)?.label ?? fit.method;
   useDocumentTitle(`Fit · ${fit.wellName}`);
   return (
@@ -67,7 +69,7 @@ function FitPage({ siteId, fitId }: { siteId: string; fitId: string }) {
             <span>Revision {fit.revision}</span>
             <span>Prepared by {fit.preparedBy.name}</span>
             {fit.submittedAt ? <span>Submitted {formatDateTime(fit.submittedAt)}</span> : null}
-            {fit.checkedBy ? (
+            {fit.checkedBy && (fit.status === 'checked' || fit.status === 'sent-back') ? (
               <span>
                 {fit.status === 'sent-back' ? 'Sent back' : 'Checked'} by {fit.checkedBy.name}
                 {fit.checkedAt ? `, ${formatDateTime(fit.checkedAt)}` : ''}
@@ -102,6 +104,7 @@ function FitPage({ siteId, fitId }: { siteId: string; fitId: string }) {
         reduced={reduced}
         series={series}
         fit={fit}
+        wellFilterPackPorosity={well.filterPackPorosity}
         aside={
           <Card aria-labelledby="fit-history-title">
             <CardHeader titleId="fit-history-title" title="History" />

@@ -28,8 +28,17 @@ export function formatQuantity(x: number, digits = 3): string {
   if (!Number.isFinite(x)) return '—';
   if (x === 0) return '0';
   const abs = Math.abs(x);
-  if (abs >= 0.01 && abs < 1e4) return String(Number(x.toPrecision(digits)));
+  if (abs >= 0.01 && abs < 1e4) return String(Number(x.toPrecision(digits))).replace('-', '−');
   return formatScientific(x, digits);
+}
+
+/** A small percentage as a person reads it: "< 0.01 %" rather than "3.2 × 10⁻⁴ %". */
+export function formatPercent(x: number): string {
+  if (!Number.isFinite(x)) return '—';
+  const sign = x < 0 ? '−' : '+';
+  const abs = Math.abs(x);
+  if (abs < 0.01) return 'less than 0.01 %';
+  return `${sign}${String(Number(abs.toPrecision(2)))} %`;
 }
 
 /** Always "m × 10ⁿ", the way K in m/s is read on a log scale. */
@@ -37,7 +46,7 @@ export function formatScientific(x: number, digits = 3): string {
   if (!Number.isFinite(x)) return '—';
   if (x === 0) return '0';
   const [mantissa, exponent] = x.toExponential(digits - 1).split('e');
-  return `${mantissa} × 10${superscript(Number(exponent))}`;
+  return `${mantissa.replace('-', '−')} × 10${superscript(Number(exponent))}`;
 }
 
 export function kUnitLabel(unit: KUnit): string {

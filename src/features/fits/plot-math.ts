@@ -20,6 +20,17 @@ export function defaultTimeUnit(maxSeconds: number): PlotTimeUnit {
   return 'h';
 }
 
+/**
+ * Where a plot of the recovery should end: a little after the record first falls to 1 % of H0, or
+ * null when it never does. A long tail of readings at static says nothing the line needs.
+ */
+export function recoveryEndSeconds(elapsedSeconds: ArrayLike<number>, normalizedHead: ArrayLike<number>): number | null {
+  for (let i = 0; i < elapsedSeconds.length; i++) {
+    if (normalizedHead[i] <= 0.01 && elapsedSeconds[i] > 0) return elapsedSeconds[i] * 1.4;
+  }
+  return null;
+}
+
 /** 1/e, the normalized head that defines the basic time lag T0. */
 export const ONE_OVER_E = Math.exp(-1);
 

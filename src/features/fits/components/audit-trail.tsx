@@ -75,13 +75,15 @@ function isChange(v: unknown): v is { from: unknown; to: unknown } {
 }
 
 function Change({ field, from, to }: { field: string; from: unknown; to: unknown }) {
+  // A window of null is the method's default: its recommended range.
+  const show = (v: unknown) => (field === 'window' && v === null ? 'the recommended range' : describeAuditValue(v));
   return (
     <li className="break-words">
       <span className="text-slate-500">{labelOf(field)}: </span>
-      <span className="text-slate-600">{describeAuditValue(from)}</span>
+      <span className="text-slate-600">{show(from)}</span>
       <span aria-hidden="true"> → </span>
-      <span className="sr-only"> changed to </span>
-      <span className="font-medium">{describeAuditValue(to)}</span>
+      <span className="sr-only">changed to </span>
+      <span className="font-medium">{show(to)}</span>
     </li>
   );
 }

@@ -12,6 +12,7 @@ import {
   hitTestWindow,
   logTicks,
   panView,
+  recoveryEndSeconds,
   secondsPer,
   zoomView,
   type DragMode,
@@ -61,6 +62,8 @@ interface Props {
 }
 
 const MARGIN = { left: 60, right: 14, top: 12 };
+/** A white outline behind annotation text, so it reads over the grid, the band and the points. */
+const HALO = { stroke: 'white', strokeWidth: 3, paintOrder: 'stroke', strokeLinejoin: 'round' } as const;
 const MAIN_HEIGHT = 330;
 const X_AXIS_HEIGHT = 34;
 const STRIP_HEIGHT = 84;
@@ -105,8 +108,14 @@ export function FitPlot({
     if (window && window.toSeconds > max) max = window.toSeconds;
     return [0, max > 0 ? max * 1.03 : 1];
   }, [elapsedSeconds, window]);
+  // Open on the recovery itself (and past the window), not a long tail at static; chosen once.
+  const [initialView] = useState<[number, number]>(() => {
+    let end = recoveryEndSeconds(elapsedSeconds, normalizedHead) ?? fullDomain[1];
+    if (window) end = Math.max(end, window.toSeconds * 1.15);
+    return end < fullDomain[1] * 0.7 ? [0, end] : fullDomain;
+  });
   const [zoom, setZoom] = useState<[number, number] | null>(null);
-  const view: [number, number] = zoom ?? fullDomain;
+  const view: [number, number] = zoom ?? initialView;
 
   const [yLo, yHi] = useMemo(() => headDomain(normalizedHead), [normalizedHead]);
   const per = secondsPer(timeUnit);
@@ -254,7 +263,8 @@ export function FitPlot({
 
   const zoomBy = (factor: number) => setZoom(zoomView(view, factor, (view[0] + view[1]) / 2, fullDomain));
   const panBy = (share: number) => setZoom(panView(view, (view[1] - view[0]) * share, fullDomain));
-  const zoomed = zoom !== null;
+  const whole = view[0] <= fullDomain[0] && view[1] >= fullDomain[1];
+  const atInitial = view[0] === initialView[0] && view[1] === initialView[1];
   const unitLabel = PLOT_TIME_UNITS.find((u) => u.id === timeUnit)?.label ?? timeUnit;
   const fmtT = (seconds: number) => `${formatQuantity(seconds / per)} ${unitLabel}`;
   const oneOverEY = y(ONE_OVER_E);
@@ -283,17 +293,20 @@ export function FitPlot({
           <Button variant="secondary" size="sm" onClick={() => zoomBy(0.5)}>
             Zoom in
           </Button>
-          <Button variant="secondary" size="sm" onClick={() => zoomBy(2)} disabled={!zoomed}>
+          <Button variant="secondary" size="sm" onClick={() => zoomBy(2)} disabled={whole}>
             Zoom out
           </Button>
-          <Button variant="secondary" size="sm" onClick={() => panBy(-0.25)} disabled={!zoomed || view[0] <= fullDomain[0]} aria-label="Pan to earlier times">
+          <Button variant="secondary" size="sm" onClick={() => panBy(-0.25)} disabled={view[0] <= fullDomain[0]} aria-label="Pan to earlier times">
             ←
           </Button>
-          <Button variant="secondary" size="sm" onClick={() => panBy(0.25)} disabled={!zoomed || view[1] >= fullDomain[1]} aria-label="Pan to later times">
+          <Button variant="secondary" size="sm" onClick={() => panBy(0.25)} disabled={view[1] >= fullDomain[1]} aria-label="Pan to later times">
             →
           </Button>
-          <Button variant="ghost" size="sm" onClick={() => setZoom(null)} disabled={!zoomed}>
+          <Button variant="ghost" size="sm" onClick={() => setZoom(null)} disabled={atInitial}>
             Reset
+          </Button>
+          <Button variant="ghost" size="sm" onClick={() => setZoom(fullDomain)} disabled={whole}>
+            Whole record
           </Button>
         </div>
       </div>
@@ -365,7 +378,7 @@ export function FitPlot({
               fillOpacity={0.14}
               data-testid="recommended-range"
             />
-            <text x={MARGIN.left + plotWidth - 6} y={y(recommended.upper) + 13} textAnchor="end" fontSize={11} fill="#92400e">
+            <text x={MARGIN.left + plotWidth - 6} y={y(recommended.upper) + 13} textAnchor="end" fontSize={11} fill="#92400e" {...HALO}>
               recommended H/H0 {recommended.upper.toFixed(2)}–{recommended.lower.toFixed(2)}
             </text>
 
@@ -386,7 +399,7 @@ export function FitPlot({
 
             {/* 1/e line. */}
             <line x1={MARGIN.left} x2={MARGIN.left + plotWidth} y1={oneOverEY} y2={oneOverEY} stroke={PLOT_COLOURS.oneOverE} strokeDasharray="6 4" />
-            <text x={MARGIN.left + 6} y={oneOverEY - 5} fontSize={11} fill={PLOT_COLOURS.oneOverE}>
+            <text x={MARGIN.left + plotWidth - 6} y={oneOverEY - 5} textAnchor="end" fontSize={11} fill={PLOT_COLOURS.oneOverE} {...HALO}>
               1/e = 0.37
             </text>
 
@@ -414,6 +427,7 @@ export function FitPlot({
                   fontSize={12}
                   fontWeight={600}
                   fill={PLOT_COLOURS.line}
+                  {...HALO}
                   textAnchor={x(line.lineCrossingSeconds) > MARGIN.left + plotWidth - 150 ? 'end' : 'start'}
                   dx={x(line.lineCrossingSeconds) > MARGIN.left + plotWidth - 150 ? -14 : 0}
                 >
@@ -434,6 +448,7 @@ export function FitPlot({
                   y={oneOverEY - 8}
                   fontSize={11}
                   fill={PLOT_COLOURS.inWindow}
+                  {...HALO}
                   textAnchor={x(line.recordCrossingSeconds) > MARGIN.left + plotWidth - 170 ? 'end' : 'start'}
                   dx={x(line.recordCrossingSeconds) > MARGIN.left + plotWidth - 170 ? -16 : 0}
                 >
@@ -446,16 +461,13 @@ export function FitPlot({
           {/* Residual strip: ln(H/H0) minus the line, for the window's readings. */}
           <rect x={MARGIN.left} y={stripTop} width={plotWidth} height={STRIP_HEIGHT} fill="white" stroke={PLOT_COLOURS.grid} />
           <line x1={MARGIN.left} x2={MARGIN.left + plotWidth} y1={yr(0)} y2={yr(0)} stroke={PLOT_COLOURS.line} strokeWidth={1} />
-          {[residualMax / 1.15, -residualMax / 1.15].map((v) => (
+          {yr.ticks(2).map((v) => (
             <text key={v} x={MARGIN.left - 8} y={yr(v)} dy="0.32em" textAnchor="end" fontSize={11} fill={PLOT_COLOURS.axis}>
-              {v > 0 ? '+' : '−'}
-              {formatQuantity(Math.abs(v), 2)}
+              {v > 0 ? '+' : v < 0 ? '−' : ''}
+              {Number(Math.abs(v).toPrecision(2))}
             </text>
           ))}
-          <text x={MARGIN.left - 8} y={yr(0)} dy="0.32em" textAnchor="end" fontSize={11} fill={PLOT_COLOURS.axis}>
-            0
-          </text>
-          <text x={MARGIN.left + 6} y={stripTop + 13} fontSize={11} fill={PLOT_COLOURS.axis}>
+          <text x={MARGIN.left + 6} y={stripTop + 13} fontSize={11} fill={PLOT_COLOURS.axis} {...HALO}>
             ln residual of the window’s readings
           </text>
           <path d={residualPath} clipPath={`url(#${clipId}-strip)`} stroke={PLOT_COLOURS.inWindow} strokeWidth={4} strokeLinecap="round" data-testid="residuals" />

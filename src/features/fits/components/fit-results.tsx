@@ -1,7 +1,7 @@
 import type { ReactNode } from 'react';
 import { K_UNITS, type KUnit } from '@shared/units/conductivity';
 import { InlineSelect } from '@/components/ui/field';
-import { formatDuration, formatK, formatLengthIn, formatQuantity } from '../format';
+import { formatDuration, formatK, formatLengthIn, formatPercent, formatQuantity } from '../format';
 import type { GeometryUnits } from '../geometry-form';
 import { secondsPer, type PlotTimeUnit } from '../plot-math';
 import type { ResultView } from '../preview';
@@ -68,9 +68,11 @@ export function FitResults({
           <span data-testid="t0-value">{formatDuration(view.t0Seconds)}</span>
         </Row>
         <Row term="r²">{view.rSquared.toFixed(4)}</Row>
-        <Row term="Readings used">{view.count}</Row>
+        <Row term="Readings used">
+          <span data-testid="readings-used">{view.count}</span>
+        </Row>
         <Row term="Window used">
-          <span className="block">
+          <span className="block" data-testid="window-used">
             t = {t(view.window.fromSeconds)} – {t(view.window.toSeconds)}
           </span>
           <span className="block text-xs font-normal text-slate-600">
@@ -108,7 +110,7 @@ export function FitResults({
                   ? `valid: mL/D = ${formatQuantity(view.simplified.mLOverD)} > 4`
                   : `outside its validity: mL/D = ${formatQuantity(view.simplified.mLOverD)} ≤ 4`
                 : ''}
-              {`; ${view.simplified.differencePercent >= 0 ? '+' : '−'}${formatQuantity(Math.abs(view.simplified.differencePercent), 2)} % from the full form`}
+              {`; ${formatPercent(view.simplified.differencePercent)} from the full form`}
             </span>
           </Row>
         ) : null}

@@ -17,6 +17,8 @@ import { FormError } from '@/components/ui/form-error';
 import { useToast } from '@/components/ui/toast';
 import { isApiError } from '@/lib/api-client';
 import { describeError } from '@/lib/errors';
+import { formatDateTime } from '@/lib/format';
+import { useMediaQuery } from '@/lib/use-media-query';
 import { useSessionState } from '@/lib/use-session-state';
 import { createFit, fitKeys, invalidateFit, updateFit, type ReducedDto } from '../api';
 import { defaultKUnit } from '../format';
@@ -28,7 +30,7 @@ import {
   type GeometryDraft,
   type GeometryErrors,
 } from '../geometry-form';
-import { defaultTimeUnit, PLOT_TIME_UNITS, type PlotTimeUnit, type TimeRange } from '../plot-math';
+import { defaultTimeUnit, PLOT_TIME_UNITS, recoveryEndSeconds, type PlotTimeUnit, type TimeRange } from '../plot-math';
 import { residuals, runPreview, toReducedRecord, viewFromPreview, viewFromStored, windowFilter, type ResultView } from '../preview';
 import { Cautions } from './cautions';
 import { FitActions } from './fit-actions';
@@ -103,12 +105,15 @@ export function FitWorkspace({
   reduced,
   series,
   fit,
+  wellFilterPackPorosity = null,
   aside,
 }: {
   site: WorkspaceSite;
   reduced: ReducedDto;
   series: Series;
   fit: Fit | null;
+  /** The well's filter-pack porosity, offered when the level moves within the pack. */
+  wellFilterPackPorosity?: number | null;
   /** Shown under the plot: the audit trail and revisions of a saved fit. */
   aside?: ReactNode;
 }) {
@@ -128,7 +133,9 @@ export function FitWorkspace({
   const [kUnit, setKUnit] = useSessionState<KUnit>(`kfield.kUnit.${site.id}`, defaultKUnit(site.displayUnits), isKUnit);
   const record = useMemo(() => toReducedRecord(reduced), [reduced]);
   const lastSeconds = reduced.elapsedSeconds.length > 0 ? reduced.elapsedSeconds[reduced.elapsedSeconds.length - 1] : 0;
-  const [timeUnit, setTimeUnit] = useSessionState<PlotTimeUnit>(`kfield.timeUnit.${reduced.recordId}`, defaultTimeUnit(lastSeconds), isPlotTimeUnit);
+  // The unit that suits the recovery the plot opens on, not a long tail at static.
+  const openingSeconds = recoveryEndSeconds(series.elapsedSeconds, series.normalizedHead) ?? lastSeconds;
+  const [timeUnit, setTimeUnit] = useSessionState<PlotTimeUnit>(`kfield.timeUnit.${reduced.recordId}`, defaultTimeUnit(openingSeconds), isPlotTimeUnit);
 
   const editable = fit === null || fit.can.edit || revising;
   const dirty = JSON.stringify(inputs) !== JSON.stringify(baseline);
@@ -219,6 +226,7 @@ export function FitWorkspace({
   const oscillationOverridden = inputs.allowOscillation && (view?.flags.some((f) => f.code === 'oscillation') ?? false);
   const saveBlocked = !parsed.geometry || (!showStored && preview?.kind !== 'ok');
 
+  const wide = useMediaQuery('(min-width: 1024px)');
   const resultHeading = showStored ? (
     <p className="text-xs text-slate-600">
       Stored result, computed by the server on all {reduced.readings.toLocaleString()} readings.
@@ -232,232 +240,309 @@ export function FitWorkspace({
     </p>
   );
 
-  return (
-    <div className="grid min-w-0 gap-6 lg:grid-cols-[minmax(0,1fr)_24rem]">
-      <div className="min-w-0 space-y-6">
-        <Card aria-labelledby="fit-plot-title">
-          <CardHeader
-            titleId="fit-plot-title"
-            title="Normalized head against time"
-            description={`${series.plottable.toLocaleString()} readings from the test start (${series.elapsedSeconds.length.toLocaleString()} drawn)${
-              series.omitted > 0 ? `; ${series.omitted.toLocaleString()} before the start or at static not drawn on the log axis` : ''
-            }.`}
+  const plotCard = (
+    <Card aria-labelledby="fit-plot-title">
+      <CardHeader
+        titleId="fit-plot-title"
+        title="Normalized head against time"
+        description={`${series.plottable.toLocaleString()} readings from the test start (${series.elapsedSeconds.length.toLocaleString()} drawn)${
+          series.omitted > 0 ? `; ${series.omitted.toLocaleString()} before the start or at static not drawn on the log axis` : ''
+        }.`}
+      />
+      <CardBody>
+        {series.elapsedSeconds.length === 0 ? (
+          <Alert tone="warning">This record has no readings above static after the test start, so there is nothing to draw on a log axis.</Alert>
+        ) : (
+          <FitPlot
+            elapsedSeconds={series.elapsedSeconds}
+            normalizedHead={series.normalizedHead}
+            method={inputs.method}
+            window={band}
+            onWindowChange={editable ? (range) => set({ window: { kind: 'time', ...range } }) : undefined}
+            inWindow={inWindow}
+            line={
+              view
+                ? {
+                    intercept: view.intercept,
+                    slopePerSecond: view.slopePerSecond,
+                    lineCrossingSeconds: view.lineCrossingSeconds,
+                    recordCrossingSeconds: view.recordCrossingSeconds,
+                    anchored: inputs.line === 'anchored',
+                  }
+                : null
+            }
+            residuals={residualSeries}
+            timeUnit={timeUnit}
+            onTimeUnitChange={setTimeUnit}
+            label={`Semi-log plot of H/H0 against time${view ? `, T0 ${view.t0Seconds.toPrecision(3)} s` : ''}`}
           />
-          <CardBody>
-            {series.elapsedSeconds.length === 0 ? (
-              <Alert tone="warning">This record has no readings above static after the test start, so there is nothing to draw on a log axis.</Alert>
-            ) : (
-              <FitPlot
-                elapsedSeconds={series.elapsedSeconds}
-                normalizedHead={series.normalizedHead}
-                method={inputs.method}
-                window={band}
-                onWindowChange={editable ? (range) => set({ window: { kind: 'time', ...range } }) : undefined}
-                inWindow={inWindow}
-                line={
-                  view
-                    ? {
-                        intercept: view.intercept,
-                        slopePerSecond: view.slopePerSecond,
-                        lineCrossingSeconds: view.lineCrossingSeconds,
-                        recordCrossingSeconds: view.recordCrossingSeconds,
-                        anchored: inputs.line === 'anchored',
-                      }
-                    : null
-                }
-                residuals={residualSeries}
-                timeUnit={timeUnit}
-                onTimeUnitChange={setTimeUnit}
-                label={`Semi-log plot of H/H0 against time${view ? `, T0 ${view.t0Seconds.toPrecision(3)} s` : ''}`}
-              />
-            )}
-            {reduced.decimated && !showStored ? (
-              <p className="mt-2 text-xs text-slate-600">
-                Preview on {reduced.elapsedSeconds.length.toLocaleString()} of {reduced.readings.toLocaleString()} readings; the saved result is computed on all
-                readings.
-              </p>
-            ) : null}
-          </CardBody>
-        </Card>
-        {aside}
-      </div>
-
-      <div className="min-w-0 space-y-6">
-        <Card aria-labelledby="fit-method-title">
-          <CardHeader titleId="fit-method-title" title="Method and window" />
-          <CardBody className="space-y-4">
-            <div className="grid grid-cols-2 gap-3">
-              <SelectField label="Method" value={inputs.method} onChange={(e) => set({ method: e.target.value as FitMethod })} disabled={!editable}>
-                {FIT_METHODS.map((m) => (
-                  <option key={m.id} value={m.id}>
-                    {m.label}
-                  </option>
-                ))}
-              </SelectField>
-              <SelectField label="Line" value={inputs.line} onChange={(e) => set({ line: e.target.value as FitLine })} disabled={!editable}>
-                {FIT_LINES.map((l) => (
-                  <option key={l.id} value={l.id}>
-                    {l.id === 'anchored' ? 'Anchored (1 at t = 0)' : 'Free (intercept fitted)'}
-                  </option>
-                ))}
-              </SelectField>
-            </div>
-            <p className="-mt-2 text-xs text-slate-500">{FIT_LINES.find((l) => l.id === inputs.line)?.label}</p>
-            {concave && inputs.line === 'anchored' && editable ? (
-              <Alert tone="warning" title="Early data are concave upward">
-                <p>A free line over the later segment is suggested (a double straight line, often filter-pack drainage).</p>
-                <Button
-                  variant="secondary"
-                  size="sm"
-                  className="mt-2"
-                  onClick={() => set({ line: 'free', window: { kind: 'head', upper: LATE_SEGMENT.upper, lower: LATE_SEGMENT.lower } })}
-                >
-                  Fit a free line over H/H0 {LATE_SEGMENT.upper}–{LATE_SEGMENT.lower}
-                </Button>
-              </Alert>
-            ) : null}
-            <WindowFields
-              window={inputs.window}
-              resolved={view ? view.window : null}
-              method={inputs.method}
-              timeUnit={timeUnit}
-              onChange={(window) => set({ window })}
-              readOnly={!editable}
-              error={windowError}
-            />
-            {oscillationFlag || oscillationOverridden || inputs.allowOscillation ? (
-              <div className="space-y-2">
-                {oscillationFlag ? (
-                  <Alert tone="error" title="The record oscillates">
-                    <p>{oscillationFlag.message}</p>
-                    {oscillationFlag.suggestion ? <p className="mt-1">{oscillationFlag.suggestion}</p> : null}
-                  </Alert>
-                ) : null}
-                <CheckboxField
-                  label="Fit anyway (overdamped methods do not apply)"
-                  checked={inputs.allowOscillation}
-                  onChange={(e) => set({ allowOscillation: e.target.checked })}
-                  disabled={!editable}
-                  hint="The oscillation flag stays on the fit for the Checker."
-                />
-              </div>
-            ) : null}
-          </CardBody>
-        </Card>
-
-        <Card aria-labelledby="fit-result-title">
-          <CardHeader titleId="fit-result-title" title="Result" />
-          <CardBody className="space-y-4">
-            {view ? (
-              <FitResults
-                view={view}
-                kUnit={kUnit}
-                onKUnitChange={setKUnit}
-                units={units}
-                timeUnit={timeUnit}
-                anchored={inputs.line === 'anchored'}
-                heading={resultHeading}
-              />
-            ) : (
-              <Alert tone="warning" title="No result yet">
-                {!parsed.geometry
-                  ? 'Complete the geometry to compute K.'
-                  : oscillationFlag
-                    ? 'The record oscillates; tick “Fit anyway” to fit it regardless.'
-                    : (engineMessage ?? engineWindowError ?? Object.values(engineGeometryErrors)[0] ?? 'Adjust the inputs to compute K.')}
-              </Alert>
-            )}
-            {view ? (
-              <div className="space-y-2">
-                <h3 className="text-sm font-semibold text-slate-900">QC flags</h3>
-                <QcFlagList flags={view.flags} />
-              </div>
-            ) : null}
-            <Cautions className="border-t border-slate-200 pt-3" />
-          </CardBody>
-        </Card>
-
-        <Card aria-labelledby="fit-geometry-title">
-          <CardHeader
-            titleId="fit-geometry-title"
-            title="Geometry"
-            description={fit ? 'As used for this fit.' : 'From the well; changes apply to this fit only.'}
-          />
-          <CardBody className="space-y-4">
-            <GeometryFields
-              draft={inputs.geometry}
-              onChange={(geometry) => set({ geometry })}
-              units={units}
-              method={inputs.method}
-              errors={geometryErrors}
-              readOnly={!editable}
-              onReset={() => set({ geometry: draftFromGeometry(reduced.defaultGeometry, units) })}
-            />
-            <SelectField
-              label="Material of the screened unit"
-              value={inputs.material}
-              onChange={(e) => set({ material: e.target.value as MaterialId | '' })}
-              disabled={!editable}
-              hint={reduced.hydroUnit ? `The well’s unit: ${reduced.hydroUnit}. K is compared with the material’s range.` : 'K is compared with the material’s range.'}
+        )}
+        {reduced.decimated && !showStored ? (
+          <p className="mt-2 text-xs text-slate-600">
+            Preview on {reduced.elapsedSeconds.length.toLocaleString()} of {reduced.readings.toLocaleString()} readings; the saved result is computed on all
+            readings.
+          </p>
+        ) : null}
+      </CardBody>
+    </Card>
+  );
+  const geometryCard = (
+    <Card aria-labelledby="fit-geometry-title">
+      <CardHeader
+        titleId="fit-geometry-title"
+        title="Geometry and material"
+        description={fit ? 'As used for this fit.' : 'From the well; changes apply to this fit only.'}
+      />
+      <CardBody className="space-y-4">
+        <GeometryFields
+          draft={inputs.geometry}
+          onChange={(geometry) => set({ geometry })}
+          units={units}
+          method={inputs.method}
+          errors={geometryErrors}
+          readOnly={!editable}
+          onReset={() => set({ geometry: draftFromGeometry(reduced.defaultGeometry, units) })}
+          wellPorosity={wellFilterPackPorosity}
+        />
+        <div className="grid items-start gap-3 border-t border-slate-200 pt-4 sm:grid-cols-2">
+        <SelectField
+          label="Material of the screened unit"
+          value={inputs.material}
+          onChange={(e) => set({ material: e.target.value as MaterialId | '' })}
+          disabled={!editable}
+          hint={reduced.hydroUnit ? `The well’s unit: ${reduced.hydroUnit}. K is compared with the material’s range.` : 'K is compared with the material’s range.'}
+        >
+          <option value="">Not stated</option>
+          {MATERIALS.map((m) => (
+            <option key={m.id} value={m.id}>
+              {m.label}
+            </option>
+          ))}
+        </SelectField>
+        <TextAreaField
+          label="Note"
+          value={inputs.note}
+          onChange={(e) => set({ note: e.target.value })}
+          readOnly={!editable}
+          maxLength={2000}
+          hint="Kept with the fit; the Checker reads it."
+        />
+        </div>
+      </CardBody>
+    </Card>
+  );
+  const methodCard = (
+    <Card aria-labelledby="fit-method-title">
+      <CardHeader titleId="fit-method-title" title="Method and window" />
+      <CardBody className="space-y-4">
+        <div className="grid grid-cols-2 gap-3">
+          <SelectField label="Method" value={inputs.method} onChange={(e) => set({ method: e.target.value as FitMethod })} disabled={!editable}>
+            {FIT_METHODS.map((m) => (
+              <option key={m.id} value={m.id}>
+                {m.label}
+              </option>
+            ))}
+          </SelectField>
+          <SelectField label="Line" value={inputs.line} onChange={(e) => set({ line: e.target.value as FitLine })} disabled={!editable}>
+            {FIT_LINES.map((l) => (
+              <option key={l.id} value={l.id}>
+                {l.id === 'anchored' ? 'Anchored' : 'Free'}
+              </option>
+            ))}
+          </SelectField>
+        </div>
+        <p className="-mt-2 text-xs text-slate-500">{FIT_LINES.find((l) => l.id === inputs.line)?.label}</p>
+        {concave && inputs.line === 'anchored' && editable ? (
+          <Alert tone="warning" title="Early data are concave upward">
+            <p>A free line over the later segment is suggested (a double straight line, often filter-pack drainage).</p>
+            <Button
+              variant="secondary"
+              size="sm"
+              className="mt-2"
+              onClick={() => set({ line: 'free', window: { kind: 'head', upper: LATE_SEGMENT.upper, lower: LATE_SEGMENT.lower } })}
             >
-              <option value="">Not stated</option>
-              {MATERIALS.map((m) => (
-                <option key={m.id} value={m.id}>
-                  {m.label}
-                </option>
-              ))}
-            </SelectField>
-            <TextAreaField
-              label="Note"
-              value={inputs.note}
-              onChange={(e) => set({ note: e.target.value })}
-              readOnly={!editable}
-              maxLength={2000}
-              hint="Kept with the fit; the Checker reads it."
+              Fit a free line over H/H0 {LATE_SEGMENT.upper}–{LATE_SEGMENT.lower}
+            </Button>
+          </Alert>
+        ) : null}
+        <WindowFields
+          window={inputs.window}
+          resolved={view ? view.window : null}
+          method={inputs.method}
+          timeUnit={timeUnit}
+          onChange={(window) => set({ window })}
+          readOnly={!editable}
+          error={windowError}
+        />
+        {oscillationFlag || oscillationOverridden || inputs.allowOscillation ? (
+          <div className="space-y-2">
+            {oscillationFlag ? (
+              <Alert tone="error" title="The record oscillates">
+                <p>{oscillationFlag.message}</p>
+                {oscillationFlag.suggestion ? <p className="mt-1">{oscillationFlag.suggestion}</p> : null}
+              </Alert>
+            ) : null}
+            <CheckboxField
+              label="Fit anyway (overdamped methods do not apply)"
+              checked={inputs.allowOscillation}
+              onChange={(e) => set({ allowOscillation: e.target.checked })}
+              disabled={!editable}
+              hint="The oscillation flag stays on the fit for the Checker."
             />
-          </CardBody>
-        </Card>
+          </div>
+        ) : null}
+      </CardBody>
+    </Card>
+  );
+  const resultCard = (
+    <Card aria-labelledby="fit-result-title">
+      <CardHeader titleId="fit-result-title" title="Result" />
+      <CardBody className="space-y-4">
+        {view ? (
+          <FitResults
+            view={view}
+            kUnit={kUnit}
+            onKUnitChange={setKUnit}
+            units={units}
+            timeUnit={timeUnit}
+            anchored={inputs.line === 'anchored'}
+            heading={resultHeading}
+          />
+        ) : (
+          <Alert tone="warning" title="No result yet">
+            {!parsed.geometry
+              ? 'Complete the geometry to compute K.'
+              : oscillationFlag
+                ? 'The record oscillates; tick “Fit anyway” to fit it regardless.'
+                : (engineMessage ?? engineWindowError ?? Object.values(engineGeometryErrors)[0] ?? 'Adjust the inputs to compute K.')}
+          </Alert>
+        )}
+        {view ? (
+          <div className="space-y-2">
+            <h3 className="text-sm font-semibold text-slate-900">QC flags</h3>
+            <QcFlagList flags={view.flags} />
+          </div>
+        ) : null}
+        <Cautions className="border-t border-slate-200 pt-3" />
+      </CardBody>
+    </Card>
+  );
 
-        <Card aria-labelledby="fit-save-title">
-          <CardHeader titleId="fit-save-title" title={fit ? 'Save and check' : 'Save'} />
-          <CardBody className="space-y-3">
-            <FormError message={saveErrors.message} />
+  return (
+    <div className="min-w-0 space-y-6">
+      <WorkspaceBar
+        fit={fit}
+        editable={editable}
+        revising={revising}
+        dirty={dirty}
+        saving={save.isPending}
+        saveBlocked={saveBlocked}
+        saveError={saveErrors.message}
+        onSave={onSave}
+        onDiscard={() => setInputs(baseline)}
+        onRevise={() => setRevising(true)}
+        onCancelRevision={() => {
+          setInputs(baseline);
+          setRevising(false);
+        }}
+      />
+      {wide ? (
+        <div className="grid min-w-0 grid-cols-[minmax(0,1fr)_24rem] gap-6">
+          <div className="min-w-0 space-y-6">
+            {plotCard}
+            {geometryCard}
+            {aside}
+          </div>
+          <div className="min-w-0 space-y-6">
+            {methodCard}
+            {resultCard}
+          </div>
+        </div>
+      ) : (
+        <div className="min-w-0 space-y-6">
+          {plotCard}
+          {resultCard}
+          {methodCard}
+          {geometryCard}
+          {aside}
+        </div>
+      )}
+    </div>
+  );
+}
+
+/** Save, revise, submit and check, above the workspace so they are at hand at any width. */
+function WorkspaceBar({
+  fit,
+  editable,
+  revising,
+  dirty,
+  saving,
+  saveBlocked,
+  saveError,
+  onSave,
+  onDiscard,
+  onRevise,
+  onCancelRevision,
+}: {
+  fit: Fit | null;
+  editable: boolean;
+  revising: boolean;
+  dirty: boolean;
+  saving: boolean;
+  saveBlocked: boolean;
+  saveError?: string;
+  onSave: () => void;
+  onDiscard: () => void;
+  onRevise: () => void;
+  onCancelRevision: () => void;
+}) {
+  const state =
+    fit === null
+      ? 'Not saved yet: the result is a preview until you save the fit as a Draft.'
+      : dirty
+        ? 'Unsaved changes: the result is a preview until you save.'
+        : editable
+          ? `Saved ${formatDateTime(fit.updatedAt)}.`
+          : fit.can.revise
+            ? 'Checked: a change starts a new revision; this one stays as it is.'
+            : fit.can.check
+              ? 'Read-only: check it against its record and parameters, then sign it off or send it back.'
+              : 'Read-only for you.';
+  return (
+    <Card as="div" className="px-4 py-3 sm:px-5">
+      <div className="flex flex-col gap-3 md:flex-row md:items-start md:justify-between">
+        <p className="text-sm text-slate-700 md:pt-2" role="status">
+          {state}
+        </p>
+        <div className="flex min-w-0 flex-col gap-2 md:items-end">
+          <div className="flex flex-wrap items-center gap-2 md:justify-end">
             {editable ? (
-              <div className="flex flex-wrap items-center gap-2">
-                <Button onClick={onSave} pending={save.isPending} disabled={saveBlocked || (fit !== null && !dirty)}>
-                  {fit === null ? 'Save fit' : revising ? `Save as revision ${fit.revision + 1}` : 'Save changes'}
-                </Button>
+              <>
                 {fit !== null && dirty ? (
-                  <Button variant="ghost" onClick={() => setInputs(baseline)} disabled={save.isPending}>
+                  <Button variant="ghost" onClick={onDiscard} disabled={saving}>
                     Discard changes
                   </Button>
                 ) : null}
                 {revising ? (
-                  <Button
-                    variant="ghost"
-                    onClick={() => {
-                      setInputs(baseline);
-                      setRevising(false);
-                    }}
-                  >
+                  <Button variant="ghost" onClick={onCancelRevision} disabled={saving}>
                     Cancel the revision
                   </Button>
                 ) : null}
-              </div>
-            ) : fit?.can.revise ? (
-              <div className="space-y-1">
-                <Button variant="secondary" onClick={() => setRevising(true)}>
-                  Start a revision
+                <Button onClick={onSave} pending={saving} disabled={saveBlocked || (fit !== null && !dirty)}>
+                  {fit === null ? 'Save fit' : revising ? `Save as revision ${fit.revision + 1}` : 'Save changes'}
                 </Button>
-                <p className="text-xs text-slate-600">A Checked fit is not changed: saving starts revision {fit.revision + 1}, and this one stays readable.</p>
-              </div>
-            ) : (
-              <p className="text-sm text-slate-600">This fit is read-only for you.</p>
-            )}
-            {fit ? <FitActions fit={fit} dirty={dirty} /> : <p className="text-xs text-slate-600">A saved fit is a Draft until you submit it for check.</p>}
-          </CardBody>
-        </Card>
+              </>
+            ) : fit?.can.revise ? (
+              <Button variant="secondary" onClick={onRevise}>
+                Start a revision
+              </Button>
+            ) : null}
+          </div>
+          {fit ? <FitActions fit={fit} dirty={dirty} /> : null}
+          <FormError message={saveError} />
+        </div>
       </div>
-    </div>
+    </Card>
   );
 }

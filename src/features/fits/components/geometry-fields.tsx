@@ -22,6 +22,8 @@ interface Props {
   errors: GeometryErrors;
   readOnly: boolean;
   onReset?: () => void;
+  /** Filled in when the level is first said to move within the pack. */
+  wellPorosity?: number | null;
 }
 
 /** √((1 − n) rc² + n rw²) as typed so far, or null while a number is missing. */
@@ -34,7 +36,7 @@ function effectiveRadiusText(draft: GeometryDraft, units: GeometryUnits): string
   return formatLengthIn(r, units.radius, 4);
 }
 
-export function GeometryFields({ draft, onChange, units, method, errors, readOnly, onReset }: Props) {
+export function GeometryFields({ draft, onChange, units, method, errors, readOnly, onReset, wellPorosity = null }: Props) {
   const set = (patch: Partial<GeometryDraft>) => onChange({ ...draft, ...patch });
   const field = (name: GeometryField, hint?: string) => {
     const unit = unitOfField(name, units);
@@ -56,13 +58,11 @@ export function GeometryFields({ draft, onChange, units, method, errors, readOnl
   return (
     <fieldset className="space-y-3">
       <legend className="sr-only">Geometry</legend>
-      <div className="grid grid-cols-2 gap-3">
+      <div className="grid grid-cols-2 gap-3 sm:grid-cols-3 xl:grid-cols-4">
         {field('casingRadius', 'where the level moves')}
         {field('screenRadius')}
         {field('boreholeRadius', 'filter pack')}
-        {field('screenLength', method === 'bouwer-rice' ? 'Le' : 'L')}
-      </div>
-      <div className="grid grid-cols-2 gap-3">
+        {field('screenLength', method === 'bouwer-rice' ? 'Le, the intake length' : 'L, the intake length')}
         <SelectField
           label="Intake radius"
           value={draft.intake}
@@ -73,22 +73,27 @@ export function GeometryFields({ draft, onChange, units, method, errors, readOnl
           <option value="borehole">Borehole radius</option>
         </SelectField>
         {field('anisotropyRatio', '1 when isotropic')}
+        {method === 'bouwer-rice' ? (
+          <>
+            {field('staticToScreenBottom', 'Lw')}
+            {field('saturatedThickness', 'D; Lw when fully penetrating')}
+          </>
+        ) : null}
       </div>
-      {method === 'bouwer-rice' ? (
-        <div className="grid grid-cols-2 gap-3">
-          {field('staticToScreenBottom', 'Lw')}
-          {field('saturatedThickness', 'D; enter Lw when fully penetrating')}
-        </div>
-      ) : null}
       <CheckboxField
         label="Water level moves within the filter pack"
         checked={draft.inFilterPack}
-        onChange={(e) => set({ inFilterPack: e.target.checked })}
+        onChange={(e) =>
+          set({
+            inFilterPack: e.target.checked,
+            ...(e.target.checked && draft.filterPackPorosity.trim() === '' && wellPorosity !== null ? { filterPackPorosity: String(wellPorosity) } : {}),
+          })
+        }
         disabled={readOnly}
-        hint="Uses the effective casing radius √((1 − n) rc² + n rw²)"
+        hint={`Uses the effective casing radius √((1 − n) rc² + n rw²)${wellPorosity !== null ? `; the well’s filter-pack porosity is ${wellPorosity}` : ''}`}
       />
       {draft.inFilterPack ? (
-        <div className="grid grid-cols-2 items-start gap-3">
+        <div className="grid grid-cols-2 items-start gap-3 sm:grid-cols-3 xl:grid-cols-4">
           {field('filterPackPorosity', 'n, between 0 and 1')}
           <div className="space-y-1.5 text-sm">
             <p className="font-medium text-slate-800">Effective casing radius</p>

@@ -45,6 +45,14 @@ function describeValues(values: QcFlag['values']): string[] {
   });
 }
 
+/** What to do about a flag whose engine message names no action. */
+const DEFAULT_SUGGESTIONS: Partial<Record<string, string>> = {
+  'window-outside-recommended':
+    'Move the window into the recommended range, or say in the note why this window suits the record better.',
+  'shape-factor-validity': 'Nothing to change: K comes from the full form; the simplified form is shown for comparison.',
+  'too-few-readings': 'Widen the window.',
+};
+
 export function QcFlagList({ flags }: { flags: readonly QcFlag[] }) {
   if (flags.length === 0) {
     return <p className="text-sm text-slate-600">No QC flags: the fit passes every check Kfield makes.</p>;
@@ -66,7 +74,9 @@ export function QcFlagList({ flags }: { flags: readonly QcFlag[] }) {
                 {flag.message}
               </span>
             </p>
-            {flag.suggestion ? <p className="mt-1 pl-5 font-medium">{flag.suggestion}</p> : null}
+            {(flag.suggestion ?? DEFAULT_SUGGESTIONS[flag.code]) ? (
+              <p className="mt-1 pl-5 font-medium">{flag.suggestion ?? DEFAULT_SUGGESTIONS[flag.code]}</p>
+            ) : null}
             <details className="mt-1 pl-5 text-xs opacity-80">
               <summary className="cursor-pointer">The numbers</summary>
               <ul className="mt-1 space-y-0.5 font-mono">

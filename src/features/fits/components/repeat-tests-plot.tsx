@@ -1,6 +1,6 @@
 import { useMemo } from 'react';
 import { scaleLinear, scaleLog } from 'd3-scale';
-import { headDomain, logTicks, ONE_OVER_E, secondsPer, type PlotTimeUnit } from '../plot-math';
+import { headDomain, logTicks, ONE_OVER_E, recoveryEndSeconds, secondsPer, type PlotTimeUnit } from '../plot-math';
 import { useElementWidth } from './use-element-width';
 
 export interface Curve {
@@ -18,7 +18,8 @@ const M = { left: 56, right: 12, top: 10, bottom: 40 };
 const HEIGHT = 300;
 
 /** The normalized curves of a well's records on one semi-log plot, one colour per record. */
-export function RepeatTestsPlot({ curves, timeUnit }: { curves: readonly Curve[]; timeUnit: PlotTimeUnit }) {
+/** `whole`: every reading; otherwise the recovery, up to where the slowest record falls to 1 % of H0. */
+export function RepeatTestsPlot({ curves, timeUnit, whole = false }: { curves: readonly Curve[]; timeUnit: PlotTimeUnit; whole?: boolean }) {
   const [ref, measured] = useElementWidth<HTMLDivElement>();
   const width = Math.max(300, measured || 640);
   const plotWidth = width - M.left - M.right;
@@ -27,13 +28,16 @@ export function RepeatTestsPlot({ curves, timeUnit }: { curves: readonly Curve[]
 
   const { maxT, allHeads } = useMemo(() => {
     let max = 0;
+    let recovered = 0;
     const heads: number[] = [];
     for (const c of curves) {
       for (const t of c.elapsedSeconds) if (t > max) max = t;
+      recovered = Math.max(recovered, recoveryEndSeconds(c.elapsedSeconds, c.normalizedHead) ?? max);
       heads.push(...c.normalizedHead);
     }
-    return { maxT: max > 0 ? max * 1.03 : 1, allHeads: heads };
-  }, [curves]);
+    const end = whole || recovered === 0 ? max : Math.min(max, recovered);
+    return { maxT: end > 0 ? end * 1.03 : 1, allHeads: heads };
+  }, [curves, whole]);
   const [yLo, yHi] = useMemo(() => headDomain(allHeads), [allHeads]);
   const x = scaleLinear().domain([0, maxT]).range([M.left, M.left + plotWidth]);
   const y = scaleLog().domain([yLo, yHi]).range([M.top + plotHeight, M.top]);
@@ -46,7 +50,7 @@ export function RepeatTestsPlot({ curves, timeUnit }: { curves: readonly Curve[]
     let d = '';
     for (let i = 0; i < c.elapsedSeconds.length; i++) {
       const h = c.normalizedHead[i];
-      if (!(h >= yLo) || h > yHi) continue;
+      if (!(h >= yLo) || h > yHi || c.elapsedSeconds[i] > maxT) continue;
       d += `${d === '' ? 'M' : 'L'}${x(c.elapsedSeconds[i]).toFixed(1)},${y(h).toFixed(1)}`;
     }
     return { id: c.id, colour: c.colour, d };

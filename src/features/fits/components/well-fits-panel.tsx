@@ -1,4 +1,4 @@
-import { useMemo } from 'react';
+import { useMemo, useState } from 'react';
 import { useSuspenseQueries, useSuspenseQuery } from '@tanstack/react-query';
 import { Link } from 'react-router-dom';
 import { FIT_METHODS } from '@shared/hydraulics/fitting';
@@ -16,7 +16,7 @@ import { Table, Td, Th } from '@/components/ui/table';
 import { useSessionState } from '@/lib/use-session-state';
 import { seriesQueryOptions, wellFitsQueryOptions, wellKQueryOptions, wellRecordsQueryOptions } from '../api';
 import { defaultKUnit, formatK, formatLogSpread } from '../format';
-import { defaultTimeUnit, PLOT_TIME_UNITS, type PlotTimeUnit } from '../plot-math';
+import { defaultTimeUnit, PLOT_TIME_UNITS, recoveryEndSeconds, type PlotTimeUnit } from '../plot-math';
 import { FitStatusBadge } from './fit-status-badge';
 import { QcFlagList } from './qc-flags';
 import { recordLabel } from './record-label';
@@ -105,12 +105,16 @@ function RepeatTests({ site, wellId }: { site: Site; wellId: string }) {
   const { data: records } = useSuspenseQuery(wellRecordsQueryOptions(wellId));
   const ordered = useMemo(() => [...records].sort((a, b) => (a.testDate ?? a.createdAt).localeCompare(b.testDate ?? b.createdAt)), [records]);
   const series = useSuspenseQueries({ queries: ordered.map((r) => seriesQueryOptions(r.id)) });
-  const longest = Math.max(0, ...ordered.map((r) => r.durationSeconds));
+  const recovery = Math.max(
+    0,
+    ...series.map((q, i) => recoveryEndSeconds(q.data.elapsedSeconds, q.data.normalizedHead) ?? ordered[i].durationSeconds),
+  );
   const [timeUnit, setTimeUnit] = useSessionState<PlotTimeUnit>(
     `kfield.repeatUnit.${wellId}`,
-    defaultTimeUnit(longest),
+    defaultTimeUnit(recovery),
     (v): v is PlotTimeUnit => PLOT_TIME_UNITS.some((u) => u.id === v),
   );
+  const [whole, setWhole] = useState(false);
   const curves = ordered.map((r, i) => ({
     id: r.id,
     label: recordLabel(r),
@@ -150,15 +154,21 @@ function RepeatTests({ site, wellId }: { site: Site; wellId: string }) {
         <h3 className="text-sm font-semibold text-slate-900">
           Normalized curves of the well’s {ordered.length === 1 ? 'record' : `${ordered.length} records`}
         </h3>
-        <InlineSelect label="Time unit of the curves" value={timeUnit} onChange={(e) => setTimeUnit(e.target.value as PlotTimeUnit)}>
-          {PLOT_TIME_UNITS.map((u) => (
-            <option key={u.id} value={u.id}>
-              {u.label}
-            </option>
-          ))}
-        </InlineSelect>
+        <div className="flex flex-wrap items-center gap-3">
+          <label className="flex items-center gap-2 text-sm text-slate-700">
+            <input type="checkbox" checked={whole} onChange={(e) => setWhole(e.target.checked)} className="size-4 accent-accent-700" />
+            Whole records
+          </label>
+          <InlineSelect label="Time unit of the curves" value={timeUnit} onChange={(e) => setTimeUnit(e.target.value as PlotTimeUnit)}>
+            {PLOT_TIME_UNITS.map((u) => (
+              <option key={u.id} value={u.id}>
+                {u.label}
+              </option>
+            ))}
+          </InlineSelect>
+        </div>
       </div>
-      <RepeatTestsPlot curves={curves} timeUnit={timeUnit} />
+      <RepeatTestsPlot curves={curves} timeUnit={timeUnit} whole={whole} />
       {flags.length > 0 ? <QcFlagList flags={flags} /> : ordered.length > 1 ? <p className="text-xs text-slate-600">The repeat tests’ normalized curves agree within 20 %.</p> : null}
       <ul className="flex flex-wrap gap-2" aria-label="Fit a record">
         {ordered.map((r) => (
