@@ -34,18 +34,23 @@ export async function seedDemoFits(ds: DataSource, config: Config): Promise<numb
 
   let made = 0;
   for (const [i, record] of records.entries()) {
-    const plan = PLANS[i % PLANS.length];
+    // Plans go by fits made, so every state appears whichever records the engine refuses.
+    const plan = PLANS[made % PLANS.length];
     const preparer = plan === 'checked-by-lead' ? as(analyst, 'Analyst') : i % 7 === 3 ? as(lead, 'Lead') : as(analyst, 'Analyst');
     const reviewer = plan === 'checked-by-lead' || preparer.user.id === checker.id ? as(lead, 'Lead') : as(checker, 'Checker');
     const method = i % 3 === 2 ? 'bouwer-rice' : 'hvorslev';
     let fit;
-    try {
-      fit = await svc.create(record.id, preparer, { method, line: 'anchored', geometry: {}, options: { allowOscillation: false }, note: '' });
-    } catch (e) {
-      // The oscillating demo record (and any the overdamped methods refuse) stays unfitted, as it should.
-      if (e instanceof AppError && e.status === 400) continue;
-      throw e;
+    for (const m of method === 'bouwer-rice' ? (['bouwer-rice', 'hvorslev'] as const) : (['hvorslev'] as const)) {
+      try {
+        fit = await svc.create(record.id, preparer, { method: m, line: 'anchored', geometry: {}, options: { allowOscillation: false }, note: '' });
+        break;
+      } catch (e) {
+        // A well whose construction a method refuses falls back to Hvorslev; the oscillating demo
+        // record stays unfitted, as it should.
+        if (!(e instanceof AppError && e.status === 400)) throw e;
+      }
     }
+    if (!fit) continue;
     made++;
     if (plan === 'draft') continue;
     await svc.submit(fit.id, preparer);

@@ -67,11 +67,14 @@ export async function loadReduced(m: EntityManager, record: RecordEntity): Promi
 
 /** The geometry a new fit starts from: the well's construction, in metres. */
 export function wellGeometry(well: Well): FitGeometry {
+  const screenLengthM = well.screenBottomDepthM - well.screenTopDepthM;
+  // With the static level inside the screen only the saturated part is the intake (Le = Lw).
+  const lw = well.staticToScreenBottomM;
   return {
     casingRadiusM: well.casingRadiusM,
     screenRadiusM: well.screenRadiusM,
     boreholeRadiusM: well.boreholeRadiusM,
-    screenLengthM: well.screenBottomDepthM - well.screenTopDepthM,
+    screenLengthM: lw && lw < screenLengthM ? lw : screenLengthM,
     intake: 'screen',
     anisotropyRatio: 1,
     ...(well.staticToScreenBottomM ? { staticToScreenBottomM: well.staticToScreenBottomM } : {}),
