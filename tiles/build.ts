@@ -198,7 +198,7 @@ const worldDescriptions: Record<(typeof WORLD_LAYERS)[number], string> = {
   country_label: 'Country names at a point inside the largest part of each country',
 };
 const localDescriptions: Record<(typeof LOCAL_LAYERS)[number], string> = {
-  landuse: 'land use areas (class: residential, industrial, commercial, grass, wood, farmland, parking)',
+  landuse: 'land use areas (class: residential, industrial, commercial, grass, wood, farmland, parking, hardstanding)',
   water: 'river, pond and lake areas',
   waterway: 'river and stream centre lines, with names',
   road: 'roads, paths and rail (class: primary, secondary, street, service, track, path, rail), with names',

@@ -46,7 +46,7 @@ export const basemapSchema = z.object({
   sizeBytes: z.number(),
   metadata: basemapMetadataSchema,
   createdAt: isoDateTime.nullable(),
-  /** How many sites have chosen this basemap. */
+  /** How many sites use this basemap: by their own choice, or as the instance default. */
   siteCount: z.number().int(),
 });
 export type Basemap = z.infer<typeof basemapSchema>;

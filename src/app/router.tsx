@@ -5,11 +5,13 @@ import { meQueryOptions } from '@/features/auth/api';
 import type { Me } from '@shared/schemas/auth';
 import { membersQueryOptions } from '@/features/members/api';
 import { outboxQueryOptions, usersQueryOptions } from '@/features/admin/api';
+import { adminBasemapsQueryOptions } from '@/features/basemaps/api';
 import { siteQueryOptions, sitesQueryOptions } from '@/features/sites/api';
 import { wellQueryOptions, wellsQueryOptions } from '@/features/wells/api';
 import { checksQueryOptions, fitQueryOptions, recordMetaQueryOptions, reducedQueryOptions, seriesQueryOptions } from '@/features/fits/api';
 import { safeNextPath, signInPathFor } from '@/lib/safe-next';
 import { AcceptInvitationRoute } from './routes/accept-invitation';
+import { AdminBasemapsRoute } from './routes/admin-basemaps';
 import { AdminOutboxRoute } from './routes/admin-outbox';
 import { AdminUsersRoute } from './routes/admin-users';
 import { AppShell } from './routes/app-shell';
@@ -147,6 +149,7 @@ export function createRoutes(queryClient: QueryClient): RouteObject[] {
                     { index: true, loader: () => redirect('/admin/users') },
                     { path: 'users', loader: prefetchForAdmin(() => void queryClient.prefetchQuery(usersQueryOptions())), element: <AdminUsersRoute /> },
                     { path: 'outbox', loader: prefetchForAdmin(() => void queryClient.prefetchQuery(outboxQueryOptions())), element: <AdminOutboxRoute /> },
+                    { path: 'basemaps', loader: prefetchForAdmin(() => void queryClient.prefetchQuery(adminBasemapsQueryOptions())), element: <AdminBasemapsRoute /> },
                   ],
                 },
                 { path: '*', element: <NotFoundRoute /> },

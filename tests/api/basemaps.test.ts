@@ -171,7 +171,7 @@ describe('uploading basemaps', () => {
 
     const list = (await admin.get('/api/admin/basemaps').expect(200)).body.basemaps as { id: string; builtIn: boolean; isDefault: boolean }[];
     expect(list.map((b) => b.id)).toEqual(['default', id]);
-    expect(list[0]).toMatchObject({ builtIn: true, isDefault: true });
+    expect(list[0]).toMatchObject({ builtIn: true, isDefault: true, siteCount: await ts.ds.getRepository(Site).count() });
 
     const { x, y } = lonLatToTile(9.15, 47.75, 12);
     const tile = await getBinary(admin, `/tiles/${id}/12/${x}/${y}.pbf`).expect(200);

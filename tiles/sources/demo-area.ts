@@ -57,9 +57,9 @@ export function buildDemoArea(): FeatureCollection {
 
   // Water first: everything else keeps clear of it.
   const river = smooth([
-    [1900, -3400], [1500, -2500], [1150, -1700], [800, -1000], [560, -450], [470, -100], [455, 120], [420, 330],
+    [2900, -7200], [2500, -5200], [1900, -3400], [1500, -2500], [1150, -1700], [800, -1000], [560, -450], [470, -100], [455, 120], [420, 330],
     [300, 470], [100, 545], [-150, 575], [-450, 640], [-800, 820], [-1150, 1050], [-1500, 1250], [-2100, 1380],
-    [-2700, 1600], [-3300, 2050], [-3800, 2500], [-4300, 2800],
+    [-2700, 1600], [-3300, 2050], [-3800, 2500], [-4300, 2800], [-5600, 3300], [-7200, 4300],
   ], 4);
   const riverHalfWidth = (i: number) => 14 + 3 * Math.sin(i / 9);
   polygon(ribbon(river, riverHalfWidth), { layer: 'water', class: 'river', name: 'River Tamsel', minzoom: 10 });
@@ -83,14 +83,14 @@ export function buildDemoArea(): FeatureCollection {
     roads.push(r);
     return r.pts;
   };
-  road([[-4300, -420], [-3100, -380], [-2600, -260], [-1900, -110], [-1400, -220], [-1000, -350], [-500, -470], [0, -482], [500, -520], [1100, -750], [1700, -1100], [2200, -1350], [2900, -1550], [4300, -1800]], 'primary', 'Hollin Road', 10);
-  road([[-1400, -215], [-1350, 500], [-1250, 1000], [-1050, 1500], [-750, 1900], [-550, 2500], [-400, 3400]], 'secondary', 'Larkmoor Road', 10);
+  road([[-7200, -560], [-5600, -470], [-4300, -420], [-3100, -380], [-2600, -260], [-1900, -110], [-1400, -220], [-1000, -350], [-500, -470], [0, -482], [500, -520], [1100, -750], [1700, -1100], [2200, -1350], [2900, -1550], [4300, -1800], [5800, -2150], [7200, -2300]], 'primary', 'Hollin Road', 10);
+  road([[-1400, -215], [-1350, 500], [-1250, 1000], [-1050, 1500], [-750, 1900], [-550, 2500], [-400, 3400], [-150, 5200], [-300, 7200]], 'secondary', 'Larkmoor Road', 10);
   road([[2200, -1350], [2000, -300], [1600, 600], [1100, 1250], [300, 1700], [-300, 1850], [-750, 1900]], 'secondary', 'Ferry Road', 10);
-  road([[-1960, -125], [-2050, -700], [-2150, -1300], [-2300, -2200], [-2450, -3400]], 'secondary', 'Quarry Lane', 11);
-  road([[1900, 200], [2600, 800], [3200, 1000], [4300, 1150]], 'track', 'Sedge Lane', 12);
-  road([[-750, 1900], [-1600, 2300], [-2600, 2700], [-4300, 3100]], 'secondary', 'Hollin Wood Road', 11);
+  road([[-1960, -125], [-2050, -700], [-2150, -1300], [-2300, -2200], [-2450, -3400], [-2800, -5200], [-2750, -7200]], 'secondary', 'Quarry Lane', 11);
+  road([[1900, 200], [2600, 800], [3200, 1000], [4300, 1150], [5400, 1500]], 'track', 'Sedge Lane', 12);
+  road([[-750, 1900], [-1600, 2300], [-2600, 2700], [-4300, 3100], [-5800, 3900], [-7200, 4900]], 'secondary', 'Hollin Wood Road', 11);
   // The depot's own roads; MW-11 sits in the access road, MW-09 beside the pump island.
-  road([[20, -482], [15, -395], [60, -220], [112.8, -22.3], [160, 150], [230, 320]], 'service', 'Depot Road', 13, 0);
+  road([[20, -482], [15, -395], [60, -220], [112.8, -22.3], [160, 150], [195, 248]], 'service', 'Depot Road', 13, 0);
   road([[60, -220], [-120, -232], [-330, -172], [-425, -60]], 'service', 'Tanker Lane', 14, 1);
   road([[112.8, -22.3], [-60, -15], [-150, -12], [-300, 22], [-440, 85]], 'service', 'Pump House Way', 14, 1);
   road([[148, 105], [40, 108], [-25, 112]], 'service', undefined, 14, 0);
@@ -109,7 +109,7 @@ export function buildDemoArea(): FeatureCollection {
   road(east, 'path', 'Tamsel Walk', 14, 0);
 
   // Rail: the line south of the town and a disused siding into the depot.
-  const rail = smooth([[-4300, -1060], [-2500, -900], [-1800, -830], [-800, -800], [300, -950], [900, -1250], [1800, -1750], [2800, -2100], [4300, -2400]], 3);
+  const rail = smooth([[-7200, -1350], [-4300, -1060], [-2500, -900], [-1800, -830], [-800, -800], [300, -950], [900, -1250], [1800, -1750], [2800, -2100], [4300, -2400], [7200, -2900]], 3);
   line(rail, { layer: 'road', class: 'rail', name: 'Hollinford branch line', minzoom: 11 });
   line(smooth([[-640, -803], [-330, -700], [-180, -560], [-125, -392]], 3), { layer: 'road', class: 'rail', service: 'siding', disused: true, minzoom: 13 });
 
@@ -229,6 +229,12 @@ export function buildDemoArea(): FeatureCollection {
   ];
   for (const [c, w, d, a, cls] of depotBuildings) polygon(rect(c, w, d, a), { layer: 'building', class: cls, minzoom: 13 });
   polygon(circle([300, 195], 11, 24), { layer: 'building', class: 'tank', minzoom: 13 });
+  // The bases of the demolished tanks on the former tank field, clear of MW-18 and MW-19.
+  for (const c of [[190, 300], [236, 302], [282, 310], [205, 348], [250, 352], [296, 358]] as Pt[]) {
+    polygon(circle(c, 13, 24), { layer: 'landuse', class: 'hardstanding', minzoom: 14 });
+  }
+  point([12, -272], { layer: 'area_label', class: 'industrial', name: 'Former tanker yard', minzoom: 16 });
+  point([250, 378], { layer: 'area_label', class: 'industrial', name: 'Former tank field', minzoom: 16 });
   polygon([[-1010, -330], [-560, -372], [-520, 80], [-600, 270], [-990, 250]], { layer: 'landuse', class: 'industrial', name: 'Kiln Lane Estate', minzoom: 10 });
   point([-780, -160], { layer: 'area_label', class: 'industrial', name: 'Kiln Lane Estate', minzoom: 14 });
   noBuild.push([[-1010, -330], [-560, -372], [-520, 80], [-600, 270], [-990, 250]]);
@@ -275,7 +281,9 @@ export function buildDemoArea(): FeatureCollection {
       const j = () => between(rand, -55, 55);
       const corners: Ring = [[u + 10 + j(), v + 10 + j()], [u + cell - 10 + j(), v + 10 + j()], [u + cell - 10 + j(), v + cell - 10 + j()], [u + 10 + j(), v + cell - 10 + j()]];
       const centre: Pt = [u + cell / 2, v + cell / 2];
-      if (rand() < 0.18 || taken(centre) || corners.some(taken)) continue;
+      // Fields thin out towards the edge of the invented area, so it has no hard outline.
+      const edge = Math.hypot(centre[0] / u1, centre[1] / v1) + between(rand, -0.15, 0.15);
+      if (rand() < 0.15 || edge > 1.1 || (edge > 0.8 && rand() < (edge - 0.8) / 0.3) || taken(centre) || corners.some(taken)) continue;
       polygon(corners, { layer: 'landuse', class: 'farmland', minzoom: 11 });
     }
   }
@@ -284,7 +292,7 @@ export function buildDemoArea(): FeatureCollection {
   point([160, 640], { layer: 'place', class: 'locality', name: 'Willow Bend', minzoom: 13 });
 
   // Draw order inside a layer follows the array: big areas first.
-  const order: Record<string, number> = { farmland: 0, residential: 1, industrial: 2, commercial: 3, grass: 4, wood: 5, parking: 6 };
+  const order: Record<string, number> = { farmland: 0, residential: 1, industrial: 2, commercial: 3, grass: 4, wood: 5, parking: 6, hardstanding: 7 };
   features.sort((a, b) => (a.properties.layer === 'landuse' && b.properties.layer === 'landuse' ? order[String(a.properties.class)] - order[String(b.properties.class)] : 0));
   return { type: 'FeatureCollection', features };
 

@@ -93,7 +93,8 @@ export function createBasemapsService({ config, ds }: AppContext, log: (msg: str
   }
 
   async function siteCounts(): Promise<Map<string, number>> {
-    const rows = (await ds.query('SELECT "basemapId" AS id, COUNT(*) AS n FROM "sites" WHERE "basemapId" IS NOT NULL GROUP BY "basemapId"')) as { id: string; n: number }[];
+    // Sites without a choice are counted under "".
+    const rows = (await ds.query('SELECT COALESCE("basemapId", \'\') AS id, COUNT(*) AS n FROM "sites" GROUP BY COALESCE("basemapId", \'\')')) as { id: string; n: number }[];
     return new Map(rows.map((r) => [r.id, Number(r.n)]));
   }
 
@@ -130,9 +131,12 @@ export function createBasemapsService({ config, ds }: AppContext, log: (msg: str
   async function list(): Promise<BasemapDto[]> {
     const rows = await repo.find({ order: { createdAt: 'ASC' } });
     const counts = await siteCounts();
+    // Sites without a choice of their own use the instance default.
+    const defaultId = rows.find((r) => r.isDefault)?.id ?? BUILTIN_BASEMAP_ID;
+    counts.set(defaultId, (counts.get(defaultId) ?? 0) + (counts.get('') ?? 0));
     const b = builtIn();
     const out: BasemapDto[] = [];
-    if (b) out.push(builtInDto(b, !rows.some((r) => r.isDefault), counts.get(BUILTIN_BASEMAP_ID) ?? 0));
+    if (b) out.push(builtInDto(b, defaultId === BUILTIN_BASEMAP_ID, counts.get(BUILTIN_BASEMAP_ID) ?? 0));
     return [...out, ...rows.map((r) => rowDto(r, counts.get(r.id) ?? 0))];
   }
 

@@ -56,6 +56,9 @@ export function AppShell() {
                 <NavLink to="/admin/outbox" className={navLink}>
                   Outbox
                 </NavLink>
+                <NavLink to="/admin/basemaps" className={navLink}>
+                  Basemaps
+                </NavLink>
               </>
             ) : null}
             <span className="ml-auto sm:ml-2">

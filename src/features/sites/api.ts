@@ -1,6 +1,6 @@
 import { queryOptions } from '@tanstack/react-query';
 import { ApiError, api, seg } from '@/lib/api-client';
-import { crsSchema, siteListSchema, siteSchema, type Crs, type SiteBody } from '@shared/schemas/sites';
+import { crsSchema, siteListSchema, siteSchema, type Crs, type SiteBody, type SitePatch } from '@shared/schemas/sites';
 
 export const siteKeys = {
   all: ['sites'] as const,
@@ -48,6 +48,6 @@ export function createSite(body: SiteBody) {
   return api.post('/api/sites', body, siteSchema);
 }
 
-export function updateSite(siteId: string, body: Partial<SiteBody>) {
+export function updateSite(siteId: string, body: SitePatch) {
   return api.patch(`/api/sites/${seg(siteId)}`, body, siteSchema);
 }

@@ -43,6 +43,8 @@ const site = {
   hydroUnits: [],
   myRole: 'Viewer',
   memberCount: 2,
+  basemapId: null,
+  basemapStyleUrl: '/tiles/style.json',
   createdAt: '2025-01-01T00:00:00.000Z',
 };
 

@@ -71,6 +71,8 @@ describe('new site form', () => {
       hydroUnits: ['Sand and gravel', 'Silt'],
       myRole: 'Lead',
       memberCount: 1,
+      basemapId: null,
+      basemapStyleUrl: '/tiles/style.json',
       createdAt: '2025-01-01T00:00:00.000Z',
     };
     const server = stubApi({

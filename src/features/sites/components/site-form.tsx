@@ -1,4 +1,4 @@
-import { useId } from 'react';
+import { useId, type ReactNode } from 'react';
 import { useFieldArray, useForm, type Path } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { DISPLAY_UNITS, DISPLAY_UNITS_LABELS } from '@shared/schemas/sites';
@@ -24,9 +24,11 @@ type Props = {
   submitLabel: string;
   onSubmit: (body: SiteFormOutput) => Promise<unknown>;
   onCancel?: () => void;
+  /** Further fields that the form around this one owns (e.g. the basemap when editing). */
+  children?: ReactNode;
 };
 
-export function SiteForm({ defaultValues, submitLabel, onSubmit, onCancel }: Props) {
+export function SiteForm({ defaultValues, submitLabel, onSubmit, onCancel, children }: Props) {
   const crsStatusId = useId();
   const {
     register,
@@ -127,6 +129,7 @@ export function SiteForm({ defaultValues, submitLabel, onSubmit, onCancel }: Pro
         </Button>
       </fieldset>
 
+      {children}
       <FormError message={errors.root?.server?.message} />
       <div className="flex flex-wrap gap-3">
         <Button type="submit" pending={isSubmitting}>
