@@ -3,6 +3,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { hvorslevT0Seconds } from '../../shared/hydraulics/hvorslev';
 import { CAUTIONS } from '../../shared/cautions';
+import { wellGeometry } from '../../server/features/fits/fits.service';
+import { Well } from '../../server/features/wells/well.entity';
 import { demoEmail, type ApiClient } from '../support/test-server';
 import { startE2E, type E2E } from './driver';
 
@@ -214,22 +216,10 @@ describe('fit workspace and check in the browser', () => {
 
   it('shows, for a synthetic record of known K fitted with the defaults, K within 2 % and the same number the API stored', async () => {
     const K = 2e-5;
-    const wells = (await analystApi.get(`/api/sites/${siteId}/wells`)).body.wells as {
-      id: string;
-      name: string;
-      casingRadiusM: number;
-      screenRadiusM: number;
-      boreholeRadiusM: number;
-      screenTopDepthM: number;
-      screenBottomDepthM: number;
-    }[];
+    const wells = (await analystApi.get(`/api/sites/${siteId}/wells`)).body.wells as { id: string; name: string }[];
     const well = wells[0];
-    const geometry = {
-      casingRadiusM: well.casingRadiusM,
-      screenRadiusM: well.screenRadiusM,
-      boreholeRadiusM: well.boreholeRadiusM,
-      screenLengthM: well.screenBottomDepthM - well.screenTopDepthM,
-    };
+    // The geometry a new fit starts from, as the server derives it from the well.
+    const geometry = wellGeometry(await e2e.ts.ds.getRepository(Well).findOneByOrFail({ id: well.id }));
     const t0 = hvorslevT0Seconds(geometry, K);
     const staticDepth = 3.5;
     const h0 = 0.9;

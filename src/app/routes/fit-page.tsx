@@ -94,9 +94,6 @@ function FitPage({ siteId, fitId }: { siteId: string; fitId: string }) {
             This revision stays readable but no longer counts toward Well K. See the revisions below.
           </Alert>
         ) : null}
-        {fit.status === 'awaiting-check' && !fit.can.check ? (
-          <Alert tone="info">This fit awaits a check by one of the site’s Checkers; it cannot be changed meanwhile.</Alert>
-        ) : null}
       </div>
       <FitWorkspace
         key={`${fit.id}:${fit.updatedAt}`}

@@ -1,10 +1,10 @@
 // @vitest-environment happy-dom
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
-import type { Fit } from '@shared/schemas/fits';
 import { QueryBoundary } from '@/components/ui/error-boundary';
 import { setCsrfToken } from '@/lib/api-client';
 import { AuditTrail } from '@/features/fits/components/audit-trail';
 import { FitActions } from '@/features/fits/components/fit-actions';
+import { fit, FIT_ID as ID, at } from './fit-fixtures';
 import { cleanup, click, getButton, getByLabel, jsonResponse, render, stubApi, type, waitFor } from './helpers';
 
 beforeEach(() => setCsrfToken('tok'));
@@ -12,58 +12,6 @@ afterEach(async () => {
   await cleanup();
   vi.unstubAllGlobals();
 });
-
-const ID = '11111111-1111-4111-8111-111111111111';
-const at = '2026-11-20T10:00:00.000Z';
-
-function fit(over: Partial<Fit> = {}): Fit {
-  return {
-    id: ID,
-    siteId: 's1',
-    wellId: 'w1',
-    wellName: 'MW-03',
-    recordId: 'r1',
-    chainId: ID,
-    revision: 1,
-    status: 'awaiting-check',
-    supersededAt: null,
-    method: 'hvorslev',
-    line: 'anchored',
-    windowInput: null,
-    geometry: { casingRadiusM: 0.0254, screenRadiusM: 0.0508, screenLengthM: 3, intake: 'screen', anisotropyRatio: 1 },
-    options: { allowOscillation: false },
-    note: '',
-    result: {
-      slopePerSecond: -0.01,
-      intercept: 0,
-      t0Seconds: 100,
-      rSquared: 0.999,
-      count: 12,
-      window: { source: 'recommended', fromSeconds: 140, toSeconds: 190, headMax: 0.25, headMin: 0.15, count: 12 },
-      h0M: 0.5,
-      effectiveH0M: 0.5,
-      expectedH0M: null,
-      lineCrossingSeconds: 100,
-      recordCrossingSeconds: 100,
-      kMetersPerSecond: 1.2e-5,
-      kSimplifiedMetersPerSecond: 1.2e-5,
-      casingRadiusUsedM: 0.0254,
-      casingRadiusIsEffective: false,
-      lineReference: 'line',
-      kReference: 'k',
-    },
-    flags: [],
-    preparedBy: { id: 'u-analyst', name: 'Tomas Ferreira' },
-    checkedBy: null,
-    checkComment: null,
-    submittedAt: at,
-    checkedAt: null,
-    createdAt: at,
-    updatedAt: at,
-    can: { edit: false, revise: false, submit: false, check: true },
-    ...over,
-  };
-}
 
 describe('check actions', () => {
   it('will not send a fit back without a comment, and sends the comment with the decision', async () => {
@@ -97,7 +45,7 @@ describe('check actions', () => {
   it('offers Submit only when saved, and no check to someone who may not check', async () => {
     const { container } = await render(<FitActions fit={fit({ status: 'draft', can: { edit: true, revise: false, submit: true, check: false } })} dirty />);
     expect(getButton(container, 'Submit for check').disabled).toBe(true);
-    expect(container.textContent).toContain('Save the changes first.');
+    expect(getButton(container, 'Submit for check').title).toBe('Save the changes first');
     expect(() => getButton(container, 'Check')).toThrow();
   });
 });

@@ -6,6 +6,7 @@ import { CAUTIONS } from '@shared/cautions';
 import { setCsrfToken } from '@/lib/api-client';
 import type { ReducedDto } from '@/features/fits/api';
 import { FitWorkspace } from '@/features/fits/components/fit-workspace';
+import { fit, FIT_ID } from './fit-fixtures';
 import { cleanup, click, getButton, getByLabel, jsonResponse, render, stubApi, type, waitFor } from './helpers';
 
 beforeEach(() => setCsrfToken('tok'));
@@ -123,5 +124,24 @@ describe('fit workspace', () => {
     const field = getByLabel(container, 'Screen radius (cm)');
     await waitFor(() => expect(field.getAttribute('aria-invalid')).toBe('true'));
     expect(container.textContent).toContain('Screen radius is too large for this well');
+  });
+
+  it('starts a revision of a Checked fit and opens the new revision the server answers with', async () => {
+    const reduced = reducedFor();
+    const NEW_ID = '22222222-2222-4222-8222-222222222222';
+    const checked = fit({ status: 'checked', geometry, can: { edit: false, revise: true, submit: false, check: false } });
+    const server = stubApi({
+      [`PATCH /api/fits/${FIT_ID}`]: () => jsonResponse(fit({ id: NEW_ID, revision: 2, status: 'draft', can: { edit: true, revise: false, submit: true, check: false } }), 201),
+      [`GET /api/fits/${NEW_ID}`]: () => jsonResponse(fit({ id: NEW_ID, revision: 2, status: 'draft' })),
+    });
+    const { container, router } = await render(<FitWorkspace site={site} reduced={reduced} series={seriesOf(reduced)} fit={checked} />);
+    expect(getByLabel(container, 'Screen length (m)').hasAttribute('readonly')).toBe(true);
+    await click(getButton(container, 'Start a revision'));
+    await type(getByLabel(container, 'Screen length (m)'), '2.5');
+    await click(getButton(container, 'Save as revision 2'));
+    await waitFor(() => expect(router.state.location.pathname).toBe(`/sites/s1/fits/${NEW_ID}`));
+    const body = JSON.parse(String(server.calls.find((c) => c.method === 'PATCH')!.init!.body));
+    expect(body.geometry.screenLengthM).toBe(2.5);
+    expect(body.window).toBeNull();
   });
 });

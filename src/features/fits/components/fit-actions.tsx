@@ -55,25 +55,22 @@ export function FitActions({ fit, dirty, onChanged }: { fit: Fit; dirty: boolean
   const serverCommentError = isApiError(check.error) ? check.error.fields?.comment : undefined;
 
   return (
-    <div className="space-y-3">
+    <>
       {fit.can.submit ? (
-        <div className="flex flex-wrap items-center gap-2">
-          <Button onClick={() => submit.mutate()} pending={submit.isPending} disabled={dirty}>
-            Submit for check
-          </Button>
-          {dirty ? <span className="text-xs text-slate-600">Save the changes first.</span> : null}
-        </div>
+        <Button onClick={() => submit.mutate()} pending={submit.isPending} disabled={dirty} title={dirty ? 'Save the changes first' : undefined}>
+          Submit for check
+        </Button>
       ) : null}
       {fit.can.check && decision === null ? (
-        <div className="flex flex-wrap gap-2">
+        <>
           <Button onClick={() => setDecision('checked')}>Check</Button>
           <Button variant="danger" onClick={() => setDecision('sent-back')}>
             Send back
           </Button>
-        </div>
+        </>
       ) : null}
       {fit.can.check && decision !== null ? (
-        <section role="group" aria-labelledby={headingId} className="space-y-3 rounded-md bg-slate-50 p-3 ring-1 ring-slate-200 ring-inset">
+        <section role="group" aria-labelledby={headingId} className="w-full max-w-xl space-y-3 rounded-md bg-slate-50 p-3 text-left ring-1 ring-slate-200 ring-inset">
           <h3 id={headingId} className="text-sm font-semibold text-slate-900">
             {decision === 'checked' ? 'Sign this fit off as Checked' : 'Send this fit back to its preparer'}
           </h3>
@@ -95,7 +92,11 @@ export function FitActions({ fit, dirty, onChanged }: { fit: Fit; dirty: boolean
           </div>
         </section>
       ) : null}
-      {error ? <Alert tone="error">{describeError(error)}</Alert> : null}
-    </div>
+      {error ? (
+        <Alert tone="error" className="w-full text-left">
+          {describeError(error)}
+        </Alert>
+      ) : null}
+    </>
   );
 }

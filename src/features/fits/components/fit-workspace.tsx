@@ -502,13 +502,21 @@ function WorkspaceBar({
       ? 'Not saved yet: the result is a preview until you save the fit as a Draft.'
       : dirty
         ? 'Unsaved changes: the result is a preview until you save.'
-        : editable
-          ? `Saved ${formatDateTime(fit.updatedAt)}.`
-          : fit.can.revise
-            ? 'Checked: a change starts a new revision; this one stays as it is.'
-            : fit.can.check
-              ? 'Read-only: check it against its record and parameters, then sign it off or send it back.'
-              : 'Read-only for you.';
+        : fit.supersededAt
+          ? 'Superseded by a later Checked revision; kept readable for the record.'
+          : fit.status === 'draft'
+            ? `Draft, saved ${formatDateTime(fit.updatedAt)}.${fit.can.submit ? ' Submit it for check when it is ready.' : ''}`
+            : fit.status === 'sent-back'
+              ? fit.can.edit
+                ? 'Sent back: change what the Checker asked, save, then submit it again.'
+                : 'Sent back to its preparer.'
+              : fit.status === 'awaiting-check'
+                ? fit.can.check
+                  ? 'Awaiting your check: compare it with its record and parameters, then check it or send it back.'
+                  : 'Awaiting check by one of the site’s Checkers; it cannot be changed meanwhile.'
+                : fit.can.revise
+                  ? 'Checked: it counts toward Well K. A change starts a new revision; this one stays as it is.'
+                  : 'Checked: it counts toward Well K.';
   return (
     <Card as="div" className="px-4 py-3 sm:px-5">
       <div className="flex flex-col gap-3 md:flex-row md:items-start md:justify-between">
@@ -517,7 +525,7 @@ function WorkspaceBar({
         </p>
         <div className="flex min-w-0 flex-col gap-2 md:items-end">
           <div className="flex flex-wrap items-center gap-2 md:justify-end">
-            {editable ? (
+            {editable && (fit === null || dirty || revising) ? (
               <>
                 {fit !== null && dirty ? (
                   <Button variant="ghost" onClick={onDiscard} disabled={saving}>
@@ -533,13 +541,14 @@ function WorkspaceBar({
                   {fit === null ? 'Save fit' : revising ? `Save as revision ${fit.revision + 1}` : 'Save changes'}
                 </Button>
               </>
-            ) : fit?.can.revise ? (
+            ) : null}
+            {fit?.can.revise && !revising ? (
               <Button variant="secondary" onClick={onRevise}>
                 Start a revision
               </Button>
             ) : null}
+            {fit ? <FitActions fit={fit} dirty={dirty} /> : null}
           </div>
-          {fit ? <FitActions fit={fit} dirty={dirty} /> : null}
           <FormError message={saveError} />
         </div>
       </div>
