@@ -190,12 +190,13 @@ export function parseSeries(text: string, layout: FileLayout, mapping: ColumnMap
   }
   const lastLine = layout.lastDataLine ?? Infinity;
 
-  let capacity = 1;
-  for (let p = start.start; p < end; ) {
-    const nl = text.indexOf('\n', p);
-    if (nl < 0 || nl >= end) break;
+  // One slot per line that has text after its start (a final line break starts no line).
+  let capacity = 0;
+  for (let q = start.start; q < end; ) {
     capacity++;
-    p = nl + 1;
+    const nl = text.indexOf('\n', q);
+    if (nl < 0 || nl >= end) break;
+    q = nl + 1;
   }
   const time = new Float64Array(capacity);
   const value = new Float64Array(capacity);
@@ -206,6 +207,12 @@ export function parseSeries(text: string, layout: FileLayout, mapping: ColumnMap
     if (issues.length < MAX_LINE_ISSUES) issues.push({ line, message });
     else truncated = true;
   };
+
+  // Without a quote in the readings, a simpler split does; aligned columns keep the general one.
+  const delimiterChar = delimiter === 'comma' ? ',' : delimiter === 'semicolon' ? ';' : '\t';
+  const quoteFree = delimiter !== 'whitespace' && text.indexOf('"', start.start) < 0;
+  const maxColumns = MAX_COLUMNS;
+  let nextDelimiter = -1;
 
   let row = 0;
   let line = layout.firstDataLine;
@@ -233,7 +240,36 @@ export function parseSeries(text: string, layout: FileLayout, mapping: ColumnMap
     }
     if (blank) continue;
 
-    const n = split(text, lineStart, e, delimiter, bounds);
+    let n: number;
+    if (quoteFree) {
+      // The common case, no quotes anywhere: fields by indexOf, the next delimiter carried over
+      // from line to line so no search runs past it twice.
+      const starts = bounds.starts;
+      const ends = bounds.ends;
+      n = 0;
+      let a = lineStart;
+      for (;;) {
+        while (a < e && text.charCodeAt(a) === 32) a++;
+        if (nextDelimiter < a) {
+          nextDelimiter = text.indexOf(delimiterChar, a);
+          if (nextDelimiter < 0) nextDelimiter = text.length;
+        }
+        const stop = nextDelimiter < e ? nextDelimiter : e;
+        let b = stop;
+        while (b > a && text.charCodeAt(b - 1) === 32) b--;
+        if (n === maxColumns) {
+          n = tooMany;
+          break;
+        }
+        starts[n] = a;
+        ends[n] = b;
+        n++;
+        if (stop === e) break;
+        a = stop + 1;
+      }
+    } else {
+      n = split(text, lineStart, e, delimiter, bounds);
+    }
     if (n === unterminated) {
       issue(line, 'a quoted field does not close');
       continue;

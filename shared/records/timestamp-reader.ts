@@ -4,18 +4,35 @@ import type { FieldBounds } from './tokenize';
 
 const POW10 = [1, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15];
 
+/** text[a, b) equals text[c, d), compared from the end (where a new minute differs first). */
+function sameSpan(text: string, a: number, b: number, c: number, d: number): boolean {
+  if (b - a !== d - c) return false;
+  for (let i = b - 1, j = d - 1; i >= a; i--, j--) if (text.charCodeAt(i) !== text.charCodeAt(j)) return false;
+  return true;
+}
+
+const digit = (text: string, i: number) => text.charCodeAt(i) - 48;
+
 /**
  * Reads a timestamp spread over one or more columns (a full date and time, or date + time of day
- * [+ AM/PM]) with the shared timestamp parser, but only once per wall-clock minute: the seconds
- * are read from the text directly and added to the minute's instant, so a long logger file costs
- * one regular-expression match per minute, not per row, and nothing is allocated per row.
+ * [+ AM/PM]) with the shared timestamp parser, but only once per wall-clock hour: minutes and
+ * seconds are read from the text directly and added to the hour's instant, so a long logger file
+ * costs one regular-expression match and zone lookup per hour, not per row, and nothing is
+ * allocated per row. Zones change their offset on the hour, so every minute of an hour resolves
+ * as the shared parser resolves the hour itself (the same instant, to the last bit: a test holds
+ * the two to that). A reader belongs to one text (one file): its caches point into it.
  */
 export class TimestampReader {
   private readonly parse: (text: string, field?: string) => number;
-  /** The cached minute: each column's text (the seconds column cut before its seconds), then what follows the seconds. */
-  private keyPieces: string[] = [];
+  /** The cached minute (and hour) as spans of the text: per column the part before the seconds (minutes), and what follows the seconds. */
+  private keyText: string | null = null;
   private keyPiece = -1;
-  private keyEpoch = NaN;
+  private readonly minuteStarts: Int32Array;
+  private readonly minuteEnds: Int32Array;
+  private minuteEpoch = NaN;
+  private readonly hourStarts: Int32Array;
+  private readonly hourEnds: Int32Array;
+  private hourEpoch = NaN;
 
   constructor(
     layout: TimestampLayout,
@@ -23,6 +40,10 @@ export class TimestampReader {
     private readonly columns: readonly number[],
   ) {
     this.parse = createTimestampParser({ layout, timeZone });
+    this.minuteStarts = new Int32Array(2 * columns.length);
+    this.minuteEnds = new Int32Array(2 * columns.length);
+    this.hourStarts = new Int32Array(2 * columns.length);
+    this.hourEnds = new Int32Array(2 * columns.length);
   }
 
   /** The text of the timestamp on the current line, as the slow path and messages see it. */
@@ -35,9 +56,12 @@ export class TimestampReader {
   /** Seconds since 1970-01-01T00:00Z; throws EngineInputError('time', …) for text that is not a timestamp. */
   read(text: string, bounds: FieldBounds): number {
     const cols = this.columns;
+    const n = cols.length;
+    // The column with hh:mm:ss, and where its minutes and seconds are.
     let piece = -1;
+    let minutesStart = -1;
     let secondsStart = -1;
-    for (let p = 0; p < cols.length && piece < 0; p++) {
+    for (let p = 0; p < n && piece < 0; p++) {
       const a = bounds.starts[cols[p]];
       const b = bounds.ends[cols[p]];
       const c1 = text.indexOf(':', a);
@@ -45,16 +69,20 @@ export class TimestampReader {
       const c2 = text.indexOf(':', c1 + 1);
       if (c2 < 0 || c2 >= b) continue;
       piece = p;
+      minutesStart = c1 + 1;
       secondsStart = c2 + 1;
     }
     if (piece < 0) return this.parse(this.fullText(text, bounds));
 
     const pieceEnd = bounds.ends[cols[piece]];
-    if (secondsStart + 2 > pieceEnd) return this.parse(this.fullText(text, bounds));
-    const d1 = text.charCodeAt(secondsStart) - 48;
-    const d2 = text.charCodeAt(secondsStart + 1) - 48;
-    if (d1 < 0 || d1 > 5 || d2 < 0 || d2 > 9) return this.parse(this.fullText(text, bounds));
-    const whole = d1 * 10 + d2;
+    if (secondsStart - minutesStart !== 3 || secondsStart + 2 > pieceEnd) return this.parse(this.fullText(text, bounds));
+    const m1 = digit(text, minutesStart);
+    const m2 = digit(text, minutesStart + 1);
+    const s1 = digit(text, secondsStart);
+    const s2 = digit(text, secondsStart + 1);
+    if (m1 < 0 || m1 > 5 || m2 < 0 || m2 > 9 || s1 < 0 || s1 > 5 || s2 < 0 || s2 > 9) return this.parse(this.fullText(text, bounds));
+    const minutes = m1 * 10 + m2;
+    const whole = s1 * 10 + s2;
     let k = secondsStart + 2;
     let fraction = 0;
     const mark = k < pieceEnd ? text.charCodeAt(k) : 0;
@@ -68,53 +96,73 @@ export class TimestampReader {
         digits = digits * 10 + (c - 48);
         k++;
       }
-      const n = k - fractionStart;
-      if (n === 0 || n > 15) return this.parse(this.fullText(text, bounds));
-      // digits / 10^n is one correctly rounded division: exactly Number("0.<digits>"), as the
+      const count = k - fractionStart;
+      if (count === 0 || count > 15) return this.parse(this.fullText(text, bounds));
+      // digits / 10^count is one correctly rounded division: exactly Number("0.<digits>"), as the
       // shared parser reads the fraction, so both paths give the same instant to the last bit.
-      fraction = digits / POW10[n];
+      fraction = digits / POW10[count];
     }
     const secondsEnd = k;
 
-    // Is this the cached minute? Compare every piece with the seconds cut out (no allocation).
-    const key = this.keyPieces;
-    let same = key.length === cols.length + 1;
-    for (let p = 0; p < cols.length && same; p++) {
-      const a = bounds.starts[cols[p]];
-      const b = bounds.ends[cols[p]];
-      if (p === piece) {
-        same = secondsStart - a === key[p].length && text.startsWith(key[p], a) && b - secondsEnd === key[cols.length].length && text.startsWith(key[cols.length], secondsEnd);
-      } else {
-        same = b - a === key[p].length && text.startsWith(key[p], a);
-      }
+    // The cached minute? Every column compared with the seconds cut out.
+    const sameText = this.keyText === text && this.keyPiece === piece;
+    if (sameText && this.sameAs(text, bounds, piece, secondsStart, secondsEnd, this.minuteStarts, this.minuteEnds)) {
+      return this.minuteEpoch + whole + fraction;
     }
-    if (same && this.keyPiece === piece) return this.keyEpoch + whole + fraction;
+    // The cached hour? Then this minute is the hour's instant plus its minutes.
+    let minuteEpoch: number;
+    if (sameText && this.sameAs(text, bounds, piece, minutesStart, secondsEnd, this.hourStarts, this.hourEnds)) {
+      minuteEpoch = this.hourEpoch + minutes * 60;
+    } else {
+      const hourParts: string[] = [];
+      for (let p = 0; p < n; p++) {
+        const a = bounds.starts[cols[p]];
+        const b = bounds.ends[cols[p]];
+        hourParts.push(p === piece ? `${text.slice(a, minutesStart)}00:00${text.slice(secondsEnd, b)}` : text.slice(a, b));
+      }
+      let hourEpoch: number;
+      try {
+        hourEpoch = this.parse(hourParts.join(' '));
+      } catch (e) {
+        // Report the text as written, not the hour built from it.
+        if (e instanceof EngineInputError) return this.parse(this.fullText(text, bounds));
+        throw e;
+      }
+      this.remember(bounds, piece, minutesStart, secondsEnd, this.hourStarts, this.hourEnds);
+      this.hourEpoch = hourEpoch;
+      minuteEpoch = hourEpoch + minutes * 60;
+    }
+    this.remember(bounds, piece, secondsStart, secondsEnd, this.minuteStarts, this.minuteEnds);
+    this.keyText = text;
+    this.keyPiece = piece;
+    this.minuteEpoch = minuteEpoch;
+    return minuteEpoch + whole + fraction;
+  }
 
-    const pieces: string[] = [];
-    const minuteParts: string[] = [];
+  /** This line's columns equal the cached spans, with text[cutFrom, cutTo) of the time column left out. */
+  private sameAs(text: string, bounds: FieldBounds, piece: number, cutFrom: number, cutTo: number, starts: Int32Array, ends: Int32Array): boolean {
+    const cols = this.columns;
     for (let p = 0; p < cols.length; p++) {
       const a = bounds.starts[cols[p]];
       const b = bounds.ends[cols[p]];
       if (p === piece) {
-        pieces.push(text.slice(a, secondsStart));
-        minuteParts.push(`${text.slice(a, secondsStart)}00${text.slice(secondsEnd, b)}`);
-      } else {
-        pieces.push(text.slice(a, b));
-        minuteParts.push(text.slice(a, b));
+        if (!sameSpan(text, a, cutFrom, starts[2 * p], ends[2 * p]) || !sameSpan(text, cutTo, b, starts[2 * p + 1], ends[2 * p + 1])) return false;
+      } else if (!sameSpan(text, a, b, starts[2 * p], ends[2 * p])) {
+        return false;
       }
     }
-    pieces.push(text.slice(secondsEnd, pieceEnd));
-    let minuteEpoch: number;
-    try {
-      minuteEpoch = this.parse(minuteParts.join(' '));
-    } catch (e) {
-      // Report the text as written, not the minute built from it.
-      if (e instanceof EngineInputError) return this.parse(this.fullText(text, bounds));
-      throw e;
+    return true;
+  }
+
+  private remember(bounds: FieldBounds, piece: number, cutFrom: number, cutTo: number, starts: Int32Array, ends: Int32Array): void {
+    const cols = this.columns;
+    for (let p = 0; p < cols.length; p++) {
+      const a = bounds.starts[cols[p]];
+      const b = bounds.ends[cols[p]];
+      starts[2 * p] = a;
+      ends[2 * p] = p === piece ? cutFrom : b;
+      starts[2 * p + 1] = p === piece ? cutTo : b;
+      ends[2 * p + 1] = b;
     }
-    this.keyPieces = pieces;
-    this.keyPiece = piece;
-    this.keyEpoch = minuteEpoch;
-    return minuteEpoch + whole + fraction;
   }
 }

@@ -69,6 +69,28 @@ function wholeSecond(wallMs: number, layout: 'ymd-dash' | 'dmy-dot' | 'mdy-ampm'
   return `${M}/${D}/${Y} ${pad(h12)}:${m}:${s} ${h < 12 ? 'AM' : 'PM'}`;
 }
 
+/** Lines of a file written into byte chunks as they come, so a long file never exists as an array of strings. */
+class FileWriter {
+  private readonly parts: Buffer[] = [];
+  private lines: string[] = [];
+  constructor(private readonly eol: string) {}
+
+  push(...lines: string[]): void {
+    for (const l of lines) this.lines.push(l);
+    if (this.lines.length >= 5000) this.flush();
+  }
+
+  private flush(): void {
+    if (this.lines.length) this.parts.push(Buffer.from(this.lines.join(this.eol) + this.eol, 'utf8'));
+    this.lines = [];
+  }
+
+  bytes(): Buffer {
+    this.flush();
+    return Buffer.concat(this.parts);
+  }
+}
+
 /** Displacement from static at time t after the start (m): the Hvorslev curve, or a damped cosine. */
 type Response = (t: number) => number;
 const hvorslev = (h0: number, t0: number): Response => (t) => (t < 0 ? 0 : h0 * Math.exp(-t / t0));
@@ -168,7 +190,8 @@ function loggerRecord(plan: Plan, well: Well, t0: number, jitter: (a: number) =>
   if (plan.kind === 'absolute') {
     // Water logger on local time, 1 decimal comma, mbar; the barometer on UTC, its own interval, kPa.
     const baroPa = (epochMs: number) => 101_325 - 420 + 180 * Math.sin(epochMs / 3.6e6 / 5) + 40 * Math.sin(epochMs / 3.6e6 / 0.7);
-    const lines = [
+    const lines = new FileWriter('\r\n');
+    lines.push(
       'Invented demo export - no real instrument, site or data',
       `Instrument;Fictional absolute pressure logger AP-3 (invented), serial ${serial}`,
       `Well;${plan.well}`,
@@ -177,7 +200,7 @@ function loggerRecord(plan: Plan, well: Well, t0: number, jitter: (a: number) =>
       '',
       'Date/Time;Pressure;Temperature',
       ';mbar;°C',
-    ];
+    );
     for (let i = 0; i < rows; i++) {
       const t = i * dt - preS;
       const ms = startMs + t * 1000;
@@ -210,14 +233,15 @@ function loggerRecord(plan: Plan, well: Well, t0: number, jitter: (a: number) =>
     return {
       kind: 'logger',
       settings,
-      file: { name: `${plan.well}-${testDate}-absolute.csv`, mediaType: 'text/csv', content: Buffer.from(`${lines.join('\r\n')}\r\n`, 'utf8') },
+      file: { name: `${plan.well}-${testDate}-absolute.csv`, mediaType: 'text/csv', content: lines.bytes() },
       barometric: { name: `site-barometer-${testDate}.txt`, mediaType: 'text/plain', content: Buffer.from(`${baroLines.join('\n')}\n`, 'utf8') },
     };
   }
 
   // Vented loggers: comma-separated, timestamp and elapsed seconds; head in m (or psi for one).
   const inPsi = plan.well === 'MW-12';
-  const lines = [
+  const lines = new FileWriter('\n');
+  lines.push(
     'Invented demo export - no real instrument, site or data',
     `Instrument,Fictional vented level logger VL-8 (invented)`,
     `Serial number,${serial}`,
@@ -227,7 +251,7 @@ function loggerRecord(plan: Plan, well: Well, t0: number, jitter: (a: number) =>
     '',
     `Timestamp,Elapsed,${inPsi ? 'Pressure' : 'Level'},Temperature`,
     `,s,${inPsi ? 'psi' : 'm'},degC`,
-  ];
+  );
   const digits = dt < 1 ? 1 : 0;
   for (let i = 0; i < rows; i++) {
     const t = i * dt - preS;
@@ -255,7 +279,7 @@ function loggerRecord(plan: Plan, well: Well, t0: number, jitter: (a: number) =>
   return {
     kind: 'logger',
     settings,
-    file: { name: `${plan.well}-${testDate}-${plan.kind === 'long' ? 'long-deployment' : 'vented'}.csv`, mediaType: 'text/csv', content: Buffer.from(`${lines.join('\n')}\n`, 'utf8') },
+    file: { name: `${plan.well}-${testDate}-${plan.kind === 'long' ? 'long-deployment' : 'vented'}.csv`, mediaType: 'text/csv', content: lines.bytes() },
   };
 }
 

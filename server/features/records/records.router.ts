@@ -46,11 +46,49 @@ const previewMultipart = z.object({
   sampled: z.string().optional().describe('"file", "barometric" or both, comma-separated: which parts are only the start of a longer file'),
 });
 
+/**
+ * Multer storage in memory that copies each file into one buffer sized from Content-Length as it
+ * arrives, instead of collecting chunks and concatenating them at the end (which holds a large
+ * file twice for a moment). Without a Content-Length it falls back to chunks.
+ */
+function singleCopyStorage(): multer.StorageEngine {
+  const received = new WeakMap<object, number>();
+  return {
+    _handleFile(req, file, cb) {
+      const length = Number(req.headers['content-length']);
+      const before = received.get(req) ?? 0;
+      const room = Number.isFinite(length) && length > before ? length - before : 0;
+      let buffer = room > 0 ? Buffer.allocUnsafe(room) : null;
+      const chunks: Buffer[] = [];
+      let size = 0;
+      file.stream.on('data', (chunk: Buffer) => {
+        if (buffer && size + chunk.length <= buffer.length) chunk.copy(buffer, size);
+        else {
+          if (buffer) chunks.push(buffer.subarray(0, size));
+          buffer = null;
+          chunks.push(chunk);
+        }
+        size += chunk.length;
+      });
+      file.stream.on('error', (e: Error) => cb(e));
+      file.stream.on('end', () => {
+        received.set(req, before + size);
+        const bytes = buffer ? buffer.subarray(0, size) : Buffer.concat(chunks, size);
+        cb(null, { buffer: bytes, size });
+      });
+    },
+    _removeFile(_req, file, cb) {
+      delete (file as { buffer?: Buffer }).buffer;
+      cb(null);
+    },
+  };
+}
+
 /** Multer in memory, bounded by RECORD_MAX_UPLOAD_MB; its refusals become 413 or 400 in the one error shape. */
 function uploads(limitMb: number): RequestHandler {
   const limitBytes = Math.floor(limitMb * 1024 * 1024);
   const upload = multer({
-    storage: multer.memoryStorage(),
+    storage: singleCopyStorage(),
     limits: { fileSize: limitBytes, files: 2, fields: 4, fieldSize: 1024 * 1024, parts: 6 },
     defParamCharset: 'utf8',
   }).fields([

@@ -1,0 +1,217 @@
+import { spawn, type ChildProcess } from 'node:child_process';
+import http from 'node:http';
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { inferSchema, initParser } from 'udsv';
+import { DEMO_PASSWORD, demoEmail, freePort } from '../support/test-server';
+
+const ROWS = 1_000_000;
+const IMPORT_RUNS = 3;
+const SERIES_RUNS = 11;
+const TARGET_RATIO = 2;
+const TARGET_IMPORT_MS = 3000;
+const TARGET_RSS_MB = 500;
+const TARGET_SERIES_MS = 100;
+
+/** An invented 10 Hz vented-logger export: preamble, header, units, timestamp, elapsed, level, temperature. */
+function loggerCsv(): Buffer {
+  const lines = [
+    'Invented benchmark export - no real instrument, site or data',
+    'Instrument,Fictional vented level logger (invented)',
+    'Sample interval,0.1 s',
+    '',
+    'Timestamp,Elapsed,Level,Temperature',
+    ',s,m,degC',
+  ];
+  const start = Date.UTC(2025, 4, 20, 8, 0, 0);
+  let second = -1;
+  let prefix = '';
+  for (let i = 0; i < ROWS; i++) {
+    const ms = start + i * 100;
+    const s = Math.floor(ms / 1000);
+    if (s !== second) {
+      second = s;
+      const iso = new Date(s * 1000).toISOString();
+      prefix = `${iso.slice(0, 10)} ${iso.slice(11, 19)}`;
+    }
+    const t = i / 10;
+    const head = t < 60 ? 4.2 : 4.2 - 0.75 * Math.exp(-(t - 60) / 2500);
+    lines.push(`${prefix}.${i % 10},${t.toFixed(1)},${(head + ((i * 7919) % 13) * 1e-5).toFixed(5)},9.${i % 10}`);
+  }
+  return Buffer.from(`${lines.join('\n')}\n`, 'utf8');
+}
+
+const SETTINGS = {
+  testType: 'slug-out',
+  reference: 'vented',
+  layout: { delimiter: 'comma', headerLine: 5, unitsLine: 6, firstDataLine: 7, lastDataLine: null, decimalComma: false },
+  mapping: { time: { columns: [0], format: 'timestamp', timestampLayout: 'iso', timeZone: 'UTC' }, valueColumn: 2 },
+  valueUnit: 'm',
+  notes: 'Invented benchmark record',
+};
+
+function median(xs: number[]): number {
+  const s = [...xs].sort((a, b) => a - b);
+  return s[Math.floor(s.length / 2)];
+}
+
+const fmt = (ms: number) => `${ms.toFixed(0).padStart(6)} ms`;
+
+/** The real server in a process of its own (fresh database with the demo data), so its memory is its own. */
+async function startServer(): Promise<{ child: ChildProcess; baseUrl: string; close(): Promise<void> }> {
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'kfield-bench-'));
+  const port = await freePort();
+  const child = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
+    env: {
+      ...process.env,
+      TSX_TSCONFIG_PATH: 'tsconfig.server.json',
+      NODE_ENV: 'test',
+      HOST: '127.0.0.1',
+      PORT: String(port),
+      DATABASE_PATH: path.join(dir, 'kfield.sqlite'),
+      SMTP_PORT: '0',
+      BCRYPT_COST: '10',
+      RECORD_MAX_UPLOAD_MB: '200',
+      CLIENT_DIST: path.join(dir, 'no-client'),
+    },
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
+  let log = '';
+  await new Promise<void>((resolve, reject) => {
+    const onData = (d: Buffer) => {
+      log += d.toString();
+      if (log.includes('Kfield is serving')) resolve();
+    };
+    child.stdout!.on('data', onData);
+    child.stderr!.on('data', (d: Buffer) => (log += d.toString()));
+    child.once('exit', (code) => reject(new Error(`the server exited (${code}) before serving:\n${log}`)));
+  });
+  return {
+    child,
+    baseUrl: `http://127.0.0.1:${port}`,
+    close: async () => {
+      const exited = new Promise((r) => child.once('exit', r));
+      child.kill('SIGTERM');
+      await exited;
+      fs.rmSync(dir, { recursive: true, force: true });
+    },
+  };
+}
+
+/** Peak resident memory of a process (Linux: VmHWM in /proc/<pid>/status), MB. */
+function peakRssMb(pid: number): number {
+  const m = /VmHWM:\s+(\d+) kB/.exec(fs.readFileSync(`/proc/${pid}/status`, 'utf8'));
+  return m ? Number(m[1]) / 1024 : NaN;
+}
+
+/** A multipart upload on a connection of its own (no keep-alive socket the server may close meanwhile). */
+function postMultipart(url: string, headers: Record<string, string>, settings: string, file: Buffer, name: string): Promise<{ status: number; body: string }> {
+  const boundary = `----kfield-bench-${Date.now()}`;
+  const head = Buffer.from(
+    `--${boundary}\r\nContent-Disposition: form-data; name="settings"\r\n\r\n${settings}\r\n` +
+      `--${boundary}\r\nContent-Disposition: form-data; name="file"; filename="${name}"\r\nContent-Type: text/csv\r\n\r\n`,
+  );
+  const tail = Buffer.from(`\r\n--${boundary}--\r\n`);
+  return new Promise((resolve, reject) => {
+    const req = http.request(url, {
+      method: 'POST',
+      agent: false,
+      headers: { ...headers, 'content-type': `multipart/form-data; boundary=${boundary}`, 'content-length': String(head.length + file.length + tail.length) },
+    });
+    req.on('response', (res) => {
+      const chunks: Buffer[] = [];
+      res.on('data', (c: Buffer) => chunks.push(c));
+      res.on('end', () => resolve({ status: res.statusCode ?? 0, body: Buffer.concat(chunks).toString('utf8') }));
+    });
+    req.on('error', reject);
+    req.write(head);
+    req.write(file);
+    req.end(tail);
+  });
+}
+
+/** A signed-in session over fetch: the cookie and the CSRF token. */
+async function signIn(baseUrl: string, email: string) {
+  const csrf = await fetch(`${baseUrl}/api/auth/csrf`);
+  let cookie = (csrf.headers.get('set-cookie') ?? '').split(';')[0];
+  const { csrfToken } = (await csrf.json()) as { csrfToken: string };
+  const login = await fetch(`${baseUrl}/api/auth/login`, {
+    method: 'POST',
+    headers: { 'content-type': 'application/json', cookie, 'x-csrf-token': csrfToken },
+    body: JSON.stringify({ email, password: DEMO_PASSWORD }),
+  });
+  if (login.status !== 200) throw new Error(`sign-in answered ${login.status}`);
+  cookie = (login.headers.get('set-cookie') ?? cookie).split(';')[0];
+  const token = ((await login.json()) as { csrfToken: string }).csrfToken;
+  return { headers: { cookie, 'x-csrf-token': token } };
+}
+
+export async function run(): Promise<void> {
+  // The baseline first, in this process: the server then starts with no idle gap before the uploads.
+  const file = loggerCsv();
+  const text = file.toString('utf8');
+  // The data after the preamble, header and units lines: what uDSV is given.
+  let p = 0;
+  for (let i = 0; i < 4; i++) p = text.indexOf('\n', p) + 1;
+  const csv = text.slice(p);
+
+  const udsvStrings: number[] = [];
+  const udsvTyped: number[] = [];
+  for (let r = 0; r < IMPORT_RUNS; r++) {
+    let t = performance.now();
+    const rows = initParser(inferSchema(csv, { col: ',', header: (h) => [h[0], h[1]] })).stringArrs(csv);
+    udsvStrings.push(performance.now() - t);
+    if (rows.length !== ROWS) throw new Error(`uDSV read ${rows.length} rows`);
+    t = performance.now();
+    const cols = initParser(inferSchema(csv, { col: ',', header: (h) => [h[0], h[1]] })).typedCols(csv);
+    udsvTyped.push(performance.now() - t);
+    if ((cols[0] as unknown[]).length !== ROWS) throw new Error(`uDSV read ${(cols[0] as unknown[]).length} rows`);
+  }
+
+  const server = await startServer();
+  try {
+    const { baseUrl } = server;
+    const session = await signIn(baseUrl, demoEmail('Analyst'));
+    const site = ((await (await fetch(`${baseUrl}/api/sites`, { headers: session.headers })).json()) as { sites: { id: string }[] }).sites[0];
+    const wells = ((await (await fetch(`${baseUrl}/api/sites/${site.id}/wells`, { headers: session.headers })).json()) as { wells: { id: string; name: string }[] }).wells;
+    const wellId = wells.find((w) => w.name === 'MW-15')!.id;
+    const imports: number[] = [];
+    let recordId = '';
+    for (let r = 0; r < IMPORT_RUNS; r++) {
+      const t = performance.now();
+      const res = await postMultipart(`${baseUrl}/api/wells/${wellId}/records`, session.headers, JSON.stringify(SETTINGS), file, 'bench-1m.csv');
+      imports.push(performance.now() - t);
+      if (res.status !== 201) throw new Error(`import answered ${res.status}: ${res.body.slice(0, 300)}`);
+      const body = JSON.parse(res.body) as { id: string; sampleCount: number };
+      if (body.sampleCount !== ROWS) throw new Error(`import read ${body.sampleCount} readings`);
+      if (recordId) await fetch(`${baseUrl}/api/records/${recordId}`, { method: 'DELETE', headers: session.headers });
+      recordId = body.id;
+    }
+
+    const series: number[] = [];
+    for (let r = 0; r < SERIES_RUNS + 2; r++) {
+      const t = performance.now();
+      const res = await fetch(`${baseUrl}/api/records/${recordId}/series?points=2000`, { headers: session.headers });
+      const body = (await res.json()) as { elapsedSeconds: number[] };
+      const ms = performance.now() - t;
+      if (res.status !== 200 || body.elapsedSeconds.length !== 2000) throw new Error(`series answered ${res.status}`);
+      if (r >= 2) series.push(ms);
+    }
+    const rssMb = peakRssMb(server.child.pid!);
+
+    const bare = median(udsvStrings);
+    const full = median(imports);
+    const ratio = full / bare;
+    const seriesMs = median(series);
+    console.log(`records, ${ROWS.toLocaleString('en-US')}-row logger CSV (${(file.length / 1e6).toFixed(1)} MB), median of ${IMPORT_RUNS} runs`);
+    console.log(`  (a) uDSV bare parse to string rows (baseline)   ${fmt(bare)}`);
+    console.log(`      uDSV parse to typed columns (for reference) ${fmt(median(udsvTyped))}`);
+    console.log(`  (b) full import through POST /api/wells/:id/records (upload, parse, reduce, store) ${fmt(full)}`);
+    console.log(`  ratio (b)/(a) ${ratio.toFixed(2)}×  target ≤ ${TARGET_RATIO}×: ${ratio <= TARGET_RATIO ? 'met' : 'NOT met'}; under ${TARGET_IMPORT_MS} ms: ${full < TARGET_IMPORT_MS ? 'met' : 'NOT met'}`);
+    console.log(`  peak RSS of the server process (start-up with the demo, ${IMPORT_RUNS} imports, the series calls) ${rssMb.toFixed(0)} MB  target < ${TARGET_RSS_MB} MB: ${rssMb < TARGET_RSS_MB ? 'met' : 'NOT met'}`);
+    console.log(`  GET /api/records/:id/series?points=2000, median of ${SERIES_RUNS}  ${seriesMs.toFixed(1)} ms  target < ${TARGET_SERIES_MS} ms: ${seriesMs < TARGET_SERIES_MS ? 'met' : 'NOT met'}`);
+  } finally {
+    await server.close();
+  }
+}
