@@ -71,6 +71,8 @@ describe('routing', () => {
       'GET /api/auth/me': () => jsonResponse({ user: viewer }),
       'GET /api/sites': () => jsonResponse({ sites: [site] }),
       'GET /api/sites/s1': () => jsonResponse(site),
+      // The top bar's Checks link counts the fits awaiting the person's check.
+      'GET /api/checks': () => jsonResponse({ items: [] }),
       'GET /api/sites/s1/members': () =>
         jsonResponse({
           members: [

@@ -378,7 +378,7 @@ export function FitPlot({
               fillOpacity={0.14}
               data-testid="recommended-range"
             />
-            <text x={MARGIN.left + plotWidth - 6} y={y(recommended.upper) + 13} textAnchor="end" fontSize={11} fill="#92400e" {...HALO}>
+            <text x={MARGIN.left + 6} y={y(Math.max(recommended.lower, yLo)) + 13} fontSize={11} fill="#92400e" {...HALO}>
               recommended H/H0 {recommended.upper.toFixed(2)}–{recommended.lower.toFixed(2)}
             </text>
 

@@ -335,7 +335,7 @@ export function FitWorkspace({
     <Card aria-labelledby="fit-method-title">
       <CardHeader titleId="fit-method-title" title="Method and window" />
       <CardBody className="space-y-4">
-        <div className="grid grid-cols-2 gap-3">
+        <div className="grid grid-cols-[3fr_2fr] gap-3">
           <SelectField label="Method" value={inputs.method} onChange={(e) => set({ method: e.target.value as FitMethod })} disabled={!editable}>
             {FIT_METHODS.map((m) => (
               <option key={m.id} value={m.id}>
