@@ -289,4 +289,39 @@ describe('fit workspace and check in the browser', () => {
     await e2e.shot(page, 'fits-well-390');
     expect(await overflow(page)).toBeLessThanOrEqual(0);
   });
+
+  it('refuses to fit the oscillating demo record silently: the reason, then an explicit override with the flag kept', async () => {
+    const wells = (await analystApi.get(`/api/sites/${siteId}/wells`)).body.wells as { id: string }[];
+    let recordId = '';
+    for (const w of wells) {
+      const records = (await analystApi.get(`/api/wells/${w.id}/records`)).body.records as { id: string }[];
+      for (const r of records) {
+        const post = await analystApi.post(`/api/records/${r.id}/fits`, { method: 'hvorslev' });
+        if (post.status === 400 && post.body.error.code === 'OSCILLATING') recordId = r.id;
+        if (recordId) break;
+      }
+      if (recordId) break;
+    }
+    expect(recordId).not.toBe('');
+    const page = await e2e.newPage({ width: 1280, height: 900 });
+    await e2e.signIn(page, demoEmail('Analyst'));
+    await page.goto(`/sites/${siteId}/records/${recordId}/fit`);
+    await page.getByText('The record oscillates').first().waitFor();
+    expect(await page.getByTestId('k-value').count()).toBe(0);
+    expect(await page.getByRole('button', { name: 'Save fit' }).isDisabled()).toBe(true);
+    await e2e.shot(page, 'fits-oscillating-refused-1280');
+    await page.getByLabel('Fit anyway (overdamped methods do not apply)').check();
+    await page.getByTestId('k-value').waitFor();
+    expect(await page.locator('[data-flag="oscillation"]').count()).toBe(1);
+    await page.getByLabel('Method', { exact: true }).selectOption('bouwer-rice');
+    await page.getByLabel('Static level to screen bottom (m)').waitFor();
+    await e2e.shot(page, 'fits-oscillating-override-bouwer-rice-1280');
+    await page.getByRole('button', { name: 'Save fit' }).click();
+    await page.waitForURL(/\/fits\/[0-9a-f-]{36}$/);
+    const fitId = page.url().split('/').pop()!;
+    const saved = (await analystApi.get(`/api/fits/${fitId}`)).body;
+    expect(saved.options.allowOscillation).toBe(true);
+    expect(saved.flags.some((f: { code: string }) => f.code === 'oscillation')).toBe(true);
+  });
 });
+
