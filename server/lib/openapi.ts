@@ -44,7 +44,9 @@ export function buildOpenApi(routes: MountedRoute[], version: string): Json {
       const media = r.contentType ?? 'application/json';
       responses[status] = r.schema
         ? { description: r.description, content: { [media]: { schema: schemaOf(r.schema, 'output') } } }
-        : { description: r.description };
+        : r.contentType
+          ? { description: r.description, content: { [media]: { schema: { type: 'string', format: 'binary' } } } }
+          : { description: r.description };
     }
     if (def.policy.rule.kind !== 'public') responses['401'] ??= { description: 'Signed out', content: { 'application/json': { schema: schemaOf(errorBodySchema, 'output') } } };
     if (def.method !== 'get') responses['403'] ??= { description: 'Missing CSRF token or not allowed', content: { 'application/json': { schema: schemaOf(errorBodySchema, 'output') } } };

@@ -148,6 +148,17 @@ describe('the style', () => {
   });
 });
 
+describe('the API document', () => {
+  it('lists the tile routes with their media type and the upload as multipart', async () => {
+    const doc = (await ts.client().get('/api/openapi.json').expect(200)).body;
+    const tile = doc.paths['/tiles/{z}/{x}/{y}.pbf'].get;
+    expect(Object.keys(tile.responses['200'].content)).toEqual(['application/x-protobuf']);
+    expect(Object.keys(doc.paths['/tiles/{basemapId}/{z}/{x}/{y}.pbf'].get.responses['200'].content)).toEqual(['application/x-protobuf']);
+    expect(Object.keys(doc.paths['/tiles/glyphs/{fontstack}/{range}.pbf'].get.responses['200'].content)).toEqual(['application/x-protobuf']);
+    expect(Object.keys(doc.paths['/api/admin/basemaps'].post.requestBody.content)).toEqual(['multipart/form-data']);
+  });
+});
+
 describe('glyphs', () => {
   it('serves a glyph range of a font stack, the first known font of a list, and an empty range the font lacks', async () => {
     const r = await getBinary(ts.client(), '/tiles/glyphs/Roboto%20Flex%20Bold/0-255.pbf').expect(200);

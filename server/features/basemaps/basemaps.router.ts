@@ -18,6 +18,7 @@ import { errorBodySchema } from '@shared/schemas/common';
 import type { AppContext } from '../../context';
 import { AppError, badRequest, notFound } from '../../lib/errors';
 import type { RouteDef } from '../../lib/route';
+import { parseOrThrow } from '../../lib/validate';
 import { builtInMissing, type BasemapsService } from './basemaps.service';
 import { createGlyphStore } from './glyphs';
 import { gzipTile, rawTile, type MbtilesFile, type TileHit } from './mbtiles';
@@ -110,7 +111,7 @@ export function basemapTileRoutes(ctx: AppContext, svc: BasemapsService): RouteD
   }
 
   const styleResponses = {
-    200: { description: 'A MapLibre style (version 8) with absolute tile and glyph URLs on the caller’s origin', contentType: 'application/json' },
+    200: { description: 'A MapLibre style (version 8) with absolute tile and glyph URLs on the caller’s origin' },
     404: err('No such basemap'),
   };
   const style = async (req: Request, res: Response, id: string) => {
@@ -215,15 +216,16 @@ export function basemapApiRoutes(ctx: AppContext, svc: BasemapsService): RouteDe
     {
       method: 'post', path: '/api/admin/basemaps', tag: 'Basemaps',
       summary: 'Upload a vector MBTiles basemap (multipart: file, optional name); anything that is not SQLite, MBTiles and format pbf is refused and nothing is kept',
-      body: basemapUploadSchema, status: 201,
-      requestBodies: { 'multipart/form-data': z.object({ file: z.string().describe('The .mbtiles file'), name: z.string().optional() }) },
+      status: 201,
+      // The body is multipart, read by the upload middleware; its text fields are checked in the handler.
+      requestBodies: { 'multipart/form-data': basemapUploadSchema.extend({ file: z.string().describe('The .mbtiles file') }) },
       before: [uploadMiddleware(ctx, svc)],
       responses: {
         201: { description: 'The new basemap', schema: basemapSchema },
         400: err('Not a vector MBTiles file (the message says why), or no file'),
         413: err('Larger than BASEMAP_MAX_UPLOAD_MB'),
       },
-      handler: (req) => svc.upload(req.file!, (req.body as { name?: string }).name),
+      handler: (req) => svc.upload(req.file!, parseOrThrow(basemapUploadSchema, req.body ?? {}, 'request body').name),
     },
     {
       method: 'patch', path: '/api/admin/basemaps/:basemapId', tag: 'Basemaps', summary: 'Rename a basemap or make it the instance default',
