@@ -174,7 +174,7 @@ function RepeatTests({ site, wellId }: { site: Site; wellId: string }) {
         {ordered.map((r) => (
           <li key={r.id}>
             <ButtonLink to={`/sites/${site.id}/records/${r.id}/fit`} variant="secondary" size="sm">
-              Fit {recordLabel(r)}
+              New fit: {recordLabel(r)}
             </ButtonLink>
           </li>
         ))}
