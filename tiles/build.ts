@@ -185,10 +185,11 @@ function main() {
   console.log(`Kfield tiles: wrote ${glyphs.files} glyph files, ${glyphs.glyphs} glyphs, ${(glyphs.bytes / 1024).toFixed(0)} KB (${ms()})`);
   const glyphFiles = fs
     .readdirSync(path.join(DIST_DIR, 'glyphs'), { recursive: true, withFileTypes: true })
-    .filter((d) => d.isFile())
+    .filter((d) => d.isFile() && d.name.endsWith('.pbf'))
     .map((d) => path.relative(path.join(DIST_DIR, 'glyphs'), path.join(d.parentPath, d.name)))
     .sort();
-  fs.writeFileSync(STAMP_PATH, `${JSON.stringify({ inputs: inputsHash(), glyphFiles }, null, 2)}\n`);
+  fs.writeFileSync(`${STAMP_PATH}.${process.pid}.partial`, `${JSON.stringify({ inputs: inputsHash(), glyphFiles }, null, 2)}\n`);
+  fs.renameSync(`${STAMP_PATH}.${process.pid}.partial`, STAMP_PATH);
   console.log(`Kfield tiles: done in ${ms()}`);
 }
 

@@ -125,7 +125,10 @@ export function buildGlyphs(outDir: string): { files: number; glyphs: number; by
       });
       const range = `${start}-${start + 255}`;
       const buf = encodeRange(font.stack, range, glyphs);
-      fs.writeFileSync(path.join(dir, `${range}.pbf`), buf);
+      // Written aside and renamed, so a server reading the glyphs never sees half a file.
+      const file = path.join(dir, `${range}.pbf`);
+      fs.writeFileSync(`${file}.${process.pid}.partial`, buf);
+      fs.renameSync(`${file}.${process.pid}.partial`, file);
       files++;
       count += glyphs.length;
       bytes += buf.length;

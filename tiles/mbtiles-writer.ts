@@ -19,7 +19,8 @@ export class MbtilesWriter {
   images = 0;
 
   constructor(private readonly target: string) {
-    this.tmpPath = `${target}.partial`;
+    // Unique per process: two builds at once (parallel test files) must not share a half-written file.
+    this.tmpPath = `${target}.${process.pid}.partial`;
     fs.rmSync(this.tmpPath, { force: true });
     this.db = new Database(this.tmpPath);
     this.db.pragma('journal_mode = OFF');
