@@ -310,6 +310,11 @@ describe('fit workspace and check in the browser', () => {
     expect(await page.getByTestId('k-value').count()).toBe(0);
     expect(await page.getByRole('button', { name: 'Save fit' }).isDisabled()).toBe(true);
     await e2e.shot(page, 'fits-oscillating-refused-1280');
+    // On a linear axis the swing below static shows as what it is.
+    await page.getByRole('radio', { name: 'Linear' }).click();
+    await expect.poll(() => page.getByText('static level (H/H0 = 0)').isVisible()).toBe(true);
+    await e2e.shot(page, 'fits-oscillating-linear-1280');
+    await page.getByRole('radio', { name: 'Log' }).click();
     await page.getByLabel('Fit anyway (overdamped methods do not apply)').check();
     await page.getByTestId('k-value').waitFor();
     expect(await page.locator('[data-flag="oscillation"]').count()).toBe(1);

@@ -74,6 +74,30 @@ describe('fit plot', () => {
     expect(Number(svg.getAttribute('data-view-to-seconds'))).toBeCloseTo(130.2, 6);
   });
 
+  it('shows every reading on a linear axis, readings below static included, when asked', async () => {
+    const { container } = await render(
+      <FitPlot
+        elapsedSeconds={t.filter((_, i) => i < 30)}
+        normalizedHead={h.filter((_, i) => i < 30)}
+        linearSeries={{ elapsedSeconds: t, normalizedHead: t.map((s) => Math.exp(-s / 20) * Math.cos(s / 5)) }}
+        method="hvorslev"
+        window={null}
+        inWindow={() => false}
+        line={null}
+        residuals={null}
+        timeUnit="s"
+        onTimeUnitChange={() => {}}
+        label="oscillating"
+      />,
+    );
+    const linear = Array.from(container.querySelectorAll('button[role="radio"]')).find((b) => b.textContent === 'Linear') as HTMLButtonElement;
+    await act(async () => linear.click());
+    const texts = Array.from(container.querySelectorAll('svg text')).map((n) => n.textContent);
+    expect(texts).toEqual(expect.arrayContaining(['Normalized head H/H0 (linear)', 'static level (H/H0 = 0)', '−0.4', '1']));
+    // All 101 readings are drawn, the negative ones too (the log series held only 30).
+    expect(container.querySelector('[data-testid="readings-outside"]')!.getAttribute('d')!.split('M').length - 1).toBe(101);
+  });
+
   it('draws no handles and takes no window when read-only', async () => {
     const { container } = await render(plot());
     expect(container.querySelectorAll('[role="slider"]')).toHaveLength(0);

@@ -47,6 +47,11 @@ export interface FitLineView {
 interface Props {
   elapsedSeconds: readonly number[];
   normalizedHead: readonly number[];
+  /**
+   * Every reading from the test start, H/H0 ≤ 0 included, for the linear view (where an
+   * oscillation shows as what it is). Omitted: the linear view draws the log series.
+   */
+  linearSeries?: { elapsedSeconds: ArrayLike<number>; normalizedHead: ArrayLike<number> };
   method: FitMethod;
   /** The fitting window on the time axis; null while none can be shown. */
   window: TimeRange | null;
@@ -86,6 +91,7 @@ interface Drag {
 export function FitPlot({
   elapsedSeconds,
   normalizedHead,
+  linearSeries,
   method,
   window,
   onWindowChange,
@@ -105,9 +111,11 @@ export function FitPlot({
   const fullDomain = useMemo<[number, number]>(() => {
     let max = 0;
     for (const t of elapsedSeconds) if (t > max) max = t;
+    const n = linearSeries?.elapsedSeconds.length ?? 0;
+    if (n > 0 && linearSeries!.elapsedSeconds[n - 1] > max) max = linearSeries!.elapsedSeconds[n - 1];
     if (window && window.toSeconds > max) max = window.toSeconds;
     return [0, max > 0 ? max * 1.03 : 1];
-  }, [elapsedSeconds, window]);
+  }, [elapsedSeconds, linearSeries, window]);
   // Open on the recovery itself (and past the window), not a long tail at static; chosen once.
   const [initialView] = useState<[number, number]>(() => {
     let end = recoveryEndSeconds(elapsedSeconds, normalizedHead) ?? fullDomain[1];
@@ -117,10 +125,38 @@ export function FitPlot({
   const [zoom, setZoom] = useState<[number, number] | null>(null);
   const view: [number, number] = zoom ?? initialView;
 
-  const [yLo, yHi] = useMemo(() => headDomain(normalizedHead), [normalizedHead]);
+  const [yMode, setYMode] = useState<'log' | 'linear'>('log');
+  const linear = yMode === 'linear';
+  // What the readings layer draws: the log series, or every reading (thinned to ~3000) on a linear axis.
+  const drawn = useMemo(() => {
+    if (!linear || !linearSeries) return { t: elapsedSeconds, h: normalizedHead };
+    const n = linearSeries.elapsedSeconds.length;
+    const stride = Math.max(1, Math.ceil(n / 3000));
+    const t: number[] = [];
+    const h: number[] = [];
+    for (let i = 0; i < n; i += stride) {
+      if (linearSeries.elapsedSeconds[i] < 0) continue;
+      t.push(linearSeries.elapsedSeconds[i]);
+      h.push(linearSeries.normalizedHead[i]);
+    }
+    return { t, h };
+  }, [linear, linearSeries, elapsedSeconds, normalizedHead]);
+  const [yLo, yHi] = useMemo<[number, number]>(() => {
+    if (!linear) return headDomain(normalizedHead);
+    let lo = -0.05;
+    let hi = 1.05;
+    for (const v of drawn.h) {
+      if (v < lo) lo = v;
+      if (v > hi) hi = v;
+    }
+    return [lo - 0.02, hi + 0.02];
+  }, [linear, normalizedHead, drawn]);
   const per = secondsPer(timeUnit);
   const x = useMemo(() => scaleLinear().domain(view).range([MARGIN.left, MARGIN.left + plotWidth]), [view, plotWidth]);
-  const y = useMemo(() => scaleLog().domain([yLo, yHi]).range([MARGIN.top + MAIN_HEIGHT, MARGIN.top]), [yLo, yHi]);
+  const y = useMemo<(v: number) => number>(
+    () => (linear ? scaleLinear() : scaleLog()).domain([yLo, yHi]).range([MARGIN.top + MAIN_HEIGHT, MARGIN.top]),
+    [linear, yLo, yHi],
+  );
   const stripTop = MARGIN.top + MAIN_HEIGHT + X_AXIS_HEIGHT + STRIP_GAP;
   const residualMax = useMemo(() => {
     let m = 0;
@@ -135,7 +171,11 @@ export function FitPlot({
     const format = unitScale.tickFormat(Math.max(3, Math.floor(plotWidth / 90)));
     return ticks.map((v) => ({ seconds: v * per, label: format(v) }));
   }, [view, per, plotWidth]);
-  const yTicks = useMemo(() => logTicks(yLo, yHi), [yLo, yHi]);
+  const yTicks = useMemo(() => {
+    if (!linear) return logTicks(yLo, yHi);
+    const ticks = scaleLinear().domain([yLo, yHi]).ticks(6);
+    return { decades: ticks.map((v) => ({ value: v, label: formatQuantity(v, 2) })), minor: [] as number[] };
+  }, [linear, yLo, yHi]);
 
   const secondsAt = useCallback(
     (clientX: number) => {
@@ -227,28 +267,35 @@ export function FitPlot({
   };
 
   const recommended = RECOMMENDED_HEAD_RANGES[method];
-  const lineSegment = useMemo(() => {
+  // The fitted line: straight on the log axis (two points), the curve exp(a + b t) on the linear one.
+  const linePath = useMemo(() => {
     if (!line || !(line.slopePerSecond < 0)) return null;
+    const h = (t: number) => Math.exp(line.intercept + line.slopePerSecond * t);
     const t0 = Math.max(0, view[0]);
-    const tBottom = (Math.log(yLo) - line.intercept) / line.slopePerSecond;
+    const tBottom = linear ? view[1] : (Math.log(yLo) - line.intercept) / line.slopePerSecond;
     const t1 = Math.min(view[1], tBottom);
     if (!(t1 > t0)) return null;
-    const h = (t: number) => Math.exp(line.intercept + line.slopePerSecond * t);
-    return { x1: x(t0), y1: y(Math.min(yHi, h(t0))), x2: x(t1), y2: y(Math.max(yLo, h(t1))) };
-  }, [line, view, x, y, yLo, yHi]);
+    const steps = linear ? 80 : 1;
+    let d = '';
+    for (let k = 0; k <= steps; k++) {
+      const t = t0 + ((t1 - t0) * k) / steps;
+      d += `${k === 0 ? 'M' : 'L'}${x(t).toFixed(1)},${y(Math.min(yHi, Math.max(yLo, h(t)))).toFixed(1)}`;
+    }
+    return d;
+  }, [line, view, x, y, yLo, yHi, linear]);
 
   const points = useMemo(() => {
     const inside: string[] = [];
     const outside: string[] = [];
-    for (let i = 0; i < elapsedSeconds.length; i++) {
-      const t = elapsedSeconds[i];
-      const h = normalizedHead[i];
+    for (let i = 0; i < drawn.t.length; i++) {
+      const t = drawn.t[i];
+      const h = drawn.h[i];
       if (t < view[0] || t > view[1] || !(h >= yLo) || h > yHi) continue;
       const d = `M${x(t).toFixed(1)},${y(h).toFixed(1)}h0`;
-      (inWindow(t, h) ? inside : outside).push(d);
+      (h > 0 && inWindow(t, h) ? inside : outside).push(d);
     }
     return { inside: inside.join(''), outside: outside.join('') };
-  }, [elapsedSeconds, normalizedHead, view, x, y, yLo, yHi, inWindow]);
+  }, [drawn, view, x, y, yLo, yHi, inWindow]);
 
   const residualPath = useMemo(() => {
     if (!residuals) return '';
@@ -272,6 +319,9 @@ export function FitPlot({
   return (
     <div className="space-y-2">
       <div className="flex flex-wrap items-center gap-2">
+        <span className="text-xs text-slate-500" aria-hidden="true">
+          Time
+        </span>
         <div role="radiogroup" aria-label="Time unit" className="inline-flex rounded-md shadow-sm ring-1 ring-slate-300 ring-inset">
           {PLOT_TIME_UNITS.map((u) => (
             <button
@@ -286,6 +336,26 @@ export function FitPlot({
               )}
             >
               {u.label}
+            </button>
+          ))}
+        </div>
+        <span className="ml-1 text-xs text-slate-500" aria-hidden="true">
+          H/H0
+        </span>
+        <div role="radiogroup" aria-label="H/H0 axis" className="inline-flex rounded-md shadow-sm ring-1 ring-slate-300 ring-inset">
+          {(['log', 'linear'] as const).map((m) => (
+            <button
+              key={m}
+              type="button"
+              role="radio"
+              aria-checked={yMode === m}
+              onClick={() => setYMode(m)}
+              className={cn(
+                'h-8 px-3 text-sm first:rounded-l-md last:rounded-r-md',
+                yMode === m ? 'bg-accent-700 font-medium text-white' : 'bg-white text-slate-700 hover:bg-slate-50',
+              )}
+            >
+              {m === 'log' ? 'Log' : 'Linear'}
             </button>
           ))}
         </div>
@@ -333,7 +403,7 @@ export function FitPlot({
             </clipPath>
           </defs>
 
-          {/* Grid and the log axis: decades labelled, minor ticks 2…9. */}
+          {/* Grid and the H/H0 axis: on the log axis decades labelled, minor ticks 2…9. */}
           <rect x={MARGIN.left} y={MARGIN.top} width={plotWidth} height={MAIN_HEIGHT} fill="white" stroke={PLOT_COLOURS.grid} />
           {yTicks.minor.map((v) => (
             <line key={`m${v}`} x1={MARGIN.left} x2={MARGIN.left + plotWidth} y1={y(v)} y2={y(v)} stroke={PLOT_COLOURS.grid} strokeWidth={0.5} />
@@ -364,7 +434,7 @@ export function FitPlot({
             fontSize={12}
             fill={PLOT_COLOURS.axis}
           >
-            Normalized head H/H0 (log)
+            Normalized head H/H0 ({linear ? 'linear' : 'log'})
           </text>
 
           <g clipPath={`url(#${clipId})`}>
@@ -406,8 +476,14 @@ export function FitPlot({
             <path d={points.outside} stroke={PLOT_COLOURS.outside} strokeWidth={4} strokeLinecap="round" data-testid="readings-outside" />
             <path d={points.inside} stroke={PLOT_COLOURS.inWindow} strokeWidth={5} strokeLinecap="round" data-testid="readings-in-window" />
 
-            {lineSegment ? (
-              <line {...lineSegment} stroke={PLOT_COLOURS.line} strokeWidth={2} data-testid="fitted-line" />
+            {linePath ? <path d={linePath} fill="none" stroke={PLOT_COLOURS.line} strokeWidth={2} data-testid="fitted-line" /> : null}
+            {linear ? (
+              <g>
+                <line x1={MARGIN.left} x2={MARGIN.left + plotWidth} y1={y(0)} y2={y(0)} stroke={PLOT_COLOURS.axis} strokeWidth={1} />
+                <text x={MARGIN.left + plotWidth - 6} y={y(0) + 14} textAnchor="end" fontSize={11} fill={PLOT_COLOURS.axis} {...HALO}>
+                  static level (H/H0 = 0)
+                </text>
+              </g>
             ) : null}
 
             {line && line.lineCrossingSeconds >= view[0] && line.lineCrossingSeconds <= view[1] ? (

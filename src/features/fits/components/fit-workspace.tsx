@@ -256,6 +256,7 @@ export function FitWorkspace({
           <FitPlot
             elapsedSeconds={series.elapsedSeconds}
             normalizedHead={series.normalizedHead}
+            linearSeries={record}
             method={inputs.method}
             window={band}
             onWindowChange={editable ? (range) => set({ window: { kind: 'time', ...range } }) : undefined}
