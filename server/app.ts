@@ -50,6 +50,17 @@ export function createApp({ config, ds, mailer, log = (m, e) => console.error(m,
   app.disable('x-powered-by');
   if (config.TRUST_PROXY) app.set('trust proxy', 1);
 
+  // Tiles, glyphs and styles are public, hot and cookie-free: served first, ahead of helmet (they set
+  // the two security headers that matter for them) and of the session middleware.
+  const basemaps = createBasemapsService(ctx, (m) => log(m, ''));
+  const tileMounted: MountedRoute[] = [];
+  const tiles = express.Router();
+  mountRoutes(tiles, ctx, basemapTileRoutes(ctx, basemaps), tileMounted);
+  app.use(tiles);
+  app.use('/tiles', (req) => {
+    throw new AppError('NOT_FOUND', `No tile route ${req.method} ${req.originalUrl}`, 404);
+  });
+
   app.use(
     helmet({
       contentSecurityPolicy: {
@@ -73,16 +84,6 @@ export function createApp({ config, ds, mailer, log = (m, e) => console.error(m,
       crossOriginEmbedderPolicy: false,
     }),
   );
-
-  // Tiles, glyphs and styles are public, hot and cookie-free: served ahead of the session middleware.
-  const basemaps = createBasemapsService(ctx, (m) => log(m, ''));
-  const tileMounted: MountedRoute[] = [];
-  const tiles = express.Router();
-  mountRoutes(tiles, ctx, basemapTileRoutes(ctx, basemaps), tileMounted);
-  app.use(tiles);
-  app.use('/tiles', (req) => {
-    throw new AppError('NOT_FOUND', `No tile route ${req.method} ${req.originalUrl}`, 404);
-  });
 
   const store = new SqliteSessionStore(ds, config.SESSION_IDLE_SECONDS * 1000);
   const pp = createPassport(ctx);

@@ -87,6 +87,7 @@ describe('tiles of the built-in basemap', () => {
     expect(r.headers['content-encoding']).toBe('gzip');
     expect(r.headers['cache-control']).toMatch(/public, max-age=(\d{5,})/);
     expect(r.headers.etag).toMatch(/^"[^"]+"$/);
+    expect(r.headers['x-content-type-options']).toBe('nosniff');
     expect(layersOf(r.body)).toEqual(expect.arrayContaining(['road', 'building', 'landuse', 'site']));
     const again = await ts.client().get(`/tiles/${DEMO.z}/${DEMO.x}/${DEMO.y}.pbf`).set('If-None-Match', r.headers.etag);
     expect(again.status).toBe(304);
