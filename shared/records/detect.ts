@@ -357,7 +357,7 @@ export function describeLayout(text: string, layout: FileLayout, options: { role
     let kind: ColumnKind = filled === 0 ? 'empty' : 'text';
     for (const [k, n] of tally) if (n >= 0.8 * filled) kind = k;
     const name = names[c];
-    const unitText = unitTexts[c] || unitInName(name);
+    const unitText = (unitTexts[c] || unitInName(name) || '').replace(/^\s*[[(]\s*|\s*[\])]\s*$/g, '');
     columns.push({ index: c, name, unitText: unitText || null, kind, unit: recogniseUnit(unitText), samples: values.slice(0, 3) });
   }
 

@@ -204,6 +204,8 @@ export type RecordDto = z.infer<typeof recordSchema>;
 export const recordListSchema = z.object({ records: z.array(recordSchema) });
 
 export const seriesQuerySchema = z.object({
+  /** log: LTTB on log10 H/H0 of the readings above static (a semi-log plot); linear: on H/H0 itself, every reading from the start. */
+  scale: z.enum(['log', 'linear'], { error: 'scale must be log or linear' }).default('log'),
   points: z.coerce
     .number({ error: 'points must be a number' })
     .int('points must be a whole number')
@@ -214,12 +216,17 @@ export const seriesQuerySchema = z.object({
 
 export const seriesSchema = z.object({
   recordId: z.string(),
+  scale: z.enum(['log', 'linear']).optional(),
   /** Every reading of the record. */
   readings: z.number().int(),
-  /** Readings from the test start on with H/H0 > 0: what a log axis can show. */
+  /** Readings the plot can show: from the test start on, with H/H0 > 0 on a log axis. */
   plottable: z.number().int(),
-  /** Readings before the test start, or at or below static (H/H0 ≤ 0), left out of the log plot. */
+  /** Readings before the test start, or (log) at or below static, left out. */
   omitted: z.number().int(),
+  /** Readings after the test start at or below static (H/H0 ≤ 0): many of them mean the water overshot static, as in an oscillating response. */
+  belowStatic: z.number().int().optional(),
+  /** Indexes into the arrays where the curve starts again after readings left out (a log plot breaks its line there). */
+  segmentStarts: z.array(z.number().int()).optional(),
   /** Seconds from the test start. */
   elapsedSeconds: z.array(z.number()),
   normalizedHead: z.array(z.number()),

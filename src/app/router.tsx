@@ -8,6 +8,7 @@ import { outboxQueryOptions, usersQueryOptions } from '@/features/admin/api';
 import { adminBasemapsQueryOptions } from '@/features/basemaps/api';
 import { siteQueryOptions, sitesQueryOptions } from '@/features/sites/api';
 import { wellQueryOptions, wellsQueryOptions } from '@/features/wells/api';
+import { recordQueryOptions, recordSeriesQueryOptions } from '@/features/records/api';
 import { checksQueryOptions, fitQueryOptions, recordMetaQueryOptions, reducedQueryOptions, seriesQueryOptions } from '@/features/fits/api';
 import { safeNextPath, signInPathFor } from '@/lib/safe-next';
 import { AcceptInvitationRoute } from './routes/accept-invitation';
@@ -20,6 +21,8 @@ import { NewFitRoute } from './routes/fit-new';
 import { FitRoute } from './routes/fit-page';
 import { ForgotPasswordRoute } from './routes/forgot-password';
 import { PublicLayout } from './routes/public-layout';
+import { NewLoggerRecordRoute, NewTapeRecordRoute } from './routes/record-new';
+import { RecordPageRoute } from './routes/record-page';
 import { ResetPasswordRoute } from './routes/reset-password';
 import { RootLayout } from './routes/root';
 import { NotFoundRoute, RootErrorPage, RouteErrorPanel } from './routes/route-error';
@@ -82,6 +85,12 @@ export function createRoutes(queryClient: QueryClient): RouteObject[] {
     void queryClient.prefetchQuery(wellQueryOptions(params.wellId ?? ''));
   });
 
+  const prefetchRecord = prefetchWhenSignedIn(({ params }) => {
+    void queryClient.prefetchQuery(siteQueryOptions(params.siteId ?? ''));
+    void queryClient.prefetchQuery(recordQueryOptions(params.recordId ?? ''));
+    void queryClient.prefetchQuery(recordSeriesQueryOptions(params.recordId ?? ''));
+  });
+
   const prefetchNewFit = prefetchWhenSignedIn(({ params }) => {
     const recordId = params.recordId ?? '';
     void queryClient.prefetchQuery(siteQueryOptions(params.siteId ?? ''));
@@ -139,6 +148,9 @@ export function createRoutes(queryClient: QueryClient): RouteObject[] {
                 { path: 'sites/:siteId/wells/new', loader: prefetchWells, element: <NewWellRoute /> },
                 { path: 'sites/:siteId/wells/import', loader: prefetchWells, element: <WellsImportRoute /> },
                 { path: 'sites/:siteId/wells/:wellId', loader: prefetchWell, element: <WellPageRoute /> },
+                { path: 'sites/:siteId/wells/:wellId/records/new/tape', loader: prefetchWell, element: <NewTapeRecordRoute /> },
+                { path: 'sites/:siteId/wells/:wellId/records/new/logger', loader: prefetchWell, element: <NewLoggerRecordRoute /> },
+                { path: 'sites/:siteId/records/:recordId', loader: prefetchRecord, element: <RecordPageRoute /> },
                 { path: 'sites/:siteId/records/:recordId/fit', loader: prefetchNewFit, element: <NewFitRoute /> },
                 { path: 'sites/:siteId/fits/:fitId', loader: prefetchFit, element: <FitRoute /> },
                 { path: 'checks', loader: prefetchWhenSignedIn(() => void queryClient.prefetchQuery(checksQueryOptions())), element: <ChecksRoute /> },

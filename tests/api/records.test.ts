@@ -216,6 +216,21 @@ describe('a logger record', () => {
     expect((await viewer.get(`/api/records/${recordId}/series?points=2`)).status).toBe(400);
   });
 
+  it('serves an oscillating record on a linear axis with its readings below static, and breaks the log line where they were left out', async () => {
+    const well = await ts.ds.getRepository(Well).findOneByOrFail({ siteId: ts.demoSiteId, name: 'MW-08' });
+    const [osc] = (await viewer.get(`/api/wells/${well.id}/records`)).body.records;
+    const log = await viewer.get(`/api/records/${osc.id}/series?points=5000`);
+    expect(log.body.scale).toBe('log');
+    expect(log.body.belowStatic).toBeGreaterThan(100);
+    expect(log.body.segmentStarts.length).toBeGreaterThan(3);
+    expect(Math.min(...log.body.normalizedHead)).toBeGreaterThan(0);
+    const linear = await viewer.get(`/api/records/${osc.id}/series?scale=linear&points=5000`);
+    expect(linear.body.plottable).toBe(log.body.plottable + log.body.belowStatic);
+    expect(Math.min(...linear.body.normalizedHead)).toBeLessThan(-0.2);
+    expect(linear.body.segmentStarts).toEqual([]);
+    expect((await viewer.get(`/api/records/${osc.id}/series?scale=sideways`)).status).toBe(400);
+  });
+
   it('is deleted with its files and series by an Analyst, not by a Viewer', async () => {
     expect((await viewer.delete(`/api/records/${recordId}`)).status).toBe(403);
     expect((await analyst.delete(`/api/records/${recordId}`)).status).toBe(204);

@@ -124,7 +124,9 @@ const PLANS: Plan[] = [
   { well: 'MW-17', kind: 'absolute', testType: 'slug-out', start: [2025, 4, 18, 9, 30], h0M: 0.55, crew: 'L. Brandt (invented)' },
   { well: 'MW-03D', kind: 'absolute', testType: 'bail-down', start: [2025, 4, 18, 8, 0], h0M: 1.2, crew: 'L. Brandt (invented)' },
   { well: 'MW-14D', kind: 'absolute', testType: 'bail-down', start: [2025, 4, 19, 8, 15], h0M: 1.0, crew: 'L. Brandt (invented)' },
-  { well: 'MW-20', kind: 'long', testType: 'slug-out', start: [2025, 4, 19, 10, 0], h0M: 0.6, crew: 'P. Varga (invented)' },
+  { well: 'MW-20', kind: 'vented', testType: 'slug-out', start: [2025, 4, 19, 10, 0], h0M: 0.6, crew: 'P. Varga (invented)' },
+  // The long file: a 10 Hz logger left running for 5.5 h in a slow silt well, so the recovery fills it.
+  { well: 'MW-19D', kind: 'long', testType: 'slug-in', start: [2025, 4, 20, 7, 30], h0M: 0.8, crew: 'P. Varga (invented)' },
   { well: 'MW-08', kind: 'oscillating', testType: 'slug-out', start: [2025, 4, 17, 15, 10], h0M: 0.4, crew: 'P. Varga (invented)' },
 ];
 
@@ -268,7 +270,7 @@ function loggerRecord(plan: Plan, well: Well, t0: number, jitter: (a: number) =>
       plan.kind === 'oscillating'
         ? `Invented demo record: an underdamped (oscillating) response of a high-K well in the buried channel, computed as a damped cosine, not from the Hvorslev model; not a measurement.`
         : plan.kind === 'long'
-          ? `${INVENTED} The logger ran for over five hours at 10 Hz; the test is in its first minutes.`
+          ? `${INVENTED} A 10 Hz logger left running for five and a half hours in a slow well in the silt.`
           : `${INVENTED} Vented logger, head above the sensor.`,
     reference: 'vented',
     layout: { delimiter: 'comma', headerLine: 8, unitsLine: 9, firstDataLine: 10, lastDataLine: null, decimalComma: false },

@@ -183,10 +183,13 @@ export function recordsRoutes(ctx: AppContext): RouteDef[] {
     },
     {
       method: 'get', path: '/api/records/:recordId/series', tag: 'Records',
-      summary: 'The normalized head H/H0 against time from the test start, downsampled by LTTB on log10 H/H0 to ?points (default 2000)',
+      summary: 'The normalized head H/H0 against time from the test start, downsampled by LTTB on log10 H/H0 (or on H/H0 with ?scale=linear) to ?points (default 2000)',
       params: recordParams, query: seriesQuerySchema,
       responses: { 200: { description: 'The plot series', schema: seriesSchema }, 400: err('Bad points'), 404: err('Not a member, or no such record') },
-      handler: (req) => svc.series(String(req.params.recordId), (req.query as unknown as z.output<typeof seriesQuerySchema>).points),
+      handler: (req) => {
+        const q = req.query as unknown as z.output<typeof seriesQuerySchema>;
+        return svc.series(String(req.params.recordId), q.points, q.scale);
+      },
     },
     {
       method: 'get', path: '/api/records/:recordId/file', tag: 'Records',

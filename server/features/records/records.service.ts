@@ -475,7 +475,7 @@ export function createRecordsService({ ds }: { ds: DataSource }) {
     return { file: main.preview, barometric: baro?.preview ?? null, suggestion, suggestionProblem };
   }
 
-  async function series(recordId: string, points: number): Promise<Series> {
+  async function series(recordId: string, points: number, scale: 'log' | 'linear' = 'log'): Promise<Series> {
     const row = await ds
       .getRepository(RecordSeries)
       .createQueryBuilder('s')
@@ -486,24 +486,33 @@ export function createRecordsService({ ds }: { ds: DataSource }) {
     const t = float64Of(row.elapsedSeconds);
     const h = float64Of(row.normalizedHead);
     const n = row.count;
-    // A log axis shows readings from the test start on with H/H0 > 0; LTTB keeps the shape of log10 H/H0.
+    // Readings from the test start on; a log axis can show only H/H0 > 0, and LTTB keeps the shape of what is drawn.
     const x = new Float64Array(n);
     const y = new Float64Array(n);
     const source = new Int32Array(n);
+    const log = scale === 'log';
     let m = 0;
+    let belowStatic = 0;
     for (let i = 0; i < n; i++) {
+      const ti = t[i];
+      if (ti < 0) continue;
       const hi = h[i];
-      if (t[i] >= 0 && hi > 0) {
-        x[m] = t[i];
-        y[m] = Math.log10(hi);
-        source[m] = i;
-        m++;
-      }
+      if (hi <= 0) belowStatic++;
+      if (log && !(hi > 0)) continue;
+      x[m] = ti;
+      y[m] = log ? Math.log10(hi) : hi;
+      source[m] = i;
+      m++;
     }
     const keep = lttbIndexes(x, y, m, points);
     const elapsedSeconds = Array.from(keep, (k) => x[k]);
     const normalizedHead = Array.from(keep, (k) => h[source[k]]);
-    return { recordId, readings: n, plottable: m, omitted: n - m, elapsedSeconds, normalizedHead };
+    // Where readings were left out between two kept points, the line of a log plot breaks.
+    const segmentStarts: number[] = [];
+    for (let k = 1; k < keep.length; k++) {
+      if (source[keep[k]] - source[keep[k - 1]] > keep[k] - keep[k - 1]) segmentStarts.push(k);
+    }
+    return { recordId, scale, readings: n, plottable: m, omitted: n - m, belowStatic, segmentStarts, elapsedSeconds, normalizedHead };
   }
 
   async function file(recordId: string, which: 'raw' | 'barometric'): Promise<RecordFile> {

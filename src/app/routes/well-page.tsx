@@ -11,6 +11,7 @@ import { QueryBoundary, RegionError } from '@/components/ui/error-boundary';
 import { PageHeader } from '@/components/ui/page-header';
 import { useToast } from '@/components/ui/toast';
 import { WellFitsPanel } from '@/features/fits/components/well-fits-panel';
+import { WellRecordsPanel } from '@/features/records/components/well-records-panel';
 import { siteQueryOptions } from '@/features/sites/api';
 import { CrsLookup } from '@/features/sites/components/crs-lookup';
 import { deleteWell, updateWell, wellKeys, wellQueryOptions } from '@/features/wells/api';
@@ -43,6 +44,7 @@ type WellSection = {
 const WELL_SECTIONS: WellSection[] = [
   { id: 'construction', title: 'Construction', Component: ConstructionSection },
   { id: 'details', title: 'Details', Component: DetailsSection },
+  { id: 'records', title: 'Records', wide: true, Component: ({ site, well, canEdit }) => <WellRecordsPanel siteId={site.id} wellId={well.id} canEdit={canEdit} displayUnits={site.displayUnits} /> },
   { id: 'fits', title: 'Well K, fits and repeat tests', wide: true, Component: WellFitsPanel },
 ];
 
