@@ -79,6 +79,22 @@ async function refused(send: () => PromiseLike<{ status: number; body: { error: 
   return r.body.error;
 }
 
+describe('the records routes in the OpenAPI document', () => {
+  it('are all there, the upload documented as multipart (file, barometric, settings JSON) and as JSON tape readings', async () => {
+    const doc = (await ts.client().get('/api/openapi.json')).body;
+    const upload = doc.paths['/api/wells/{wellId}/records'].post;
+    expect(Object.keys(upload.requestBody.content).sort()).toEqual(['application/json', 'multipart/form-data']);
+    expect(Object.keys(upload.requestBody.content['multipart/form-data'].schema.properties).sort()).toEqual(['barometric', 'file', 'settings']);
+    expect(upload.requestBody.content['application/json'].schema.properties.readings).toBeTruthy();
+    expect(upload.responses['413']).toBeTruthy();
+    expect(doc.paths['/api/records/preview'].post.summary).toMatch(/without storing/);
+    for (const [p, m] of [['/api/wells/{wellId}/records', 'get'], ['/api/records/{recordId}', 'get'], ['/api/records/{recordId}', 'delete'], ['/api/records/{recordId}/series', 'get'], ['/api/records/{recordId}/file', 'get']]) {
+      expect(doc.paths[p]?.[m]?.summary, `${m} ${p}`).toBeTruthy();
+    }
+    expect(doc.paths['/api/records/{recordId}/series'].get.parameters.map((x: { name: string }) => x.name).sort()).toEqual(['points', 'recordId', 'scale']);
+  });
+});
+
 describe('POST /api/records/preview', () => {
   it('detects the layout of an absolute-pressure export and its barometric file, and suggests a mapping, test start and static level', async () => {
     const r = await analyst.agent
