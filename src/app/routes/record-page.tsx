@@ -11,6 +11,7 @@ import { QueryBoundary, RegionError } from '@/components/ui/error-boundary';
 import { PageHeader } from '@/components/ui/page-header';
 import { useToast } from '@/components/ui/toast';
 import { useMe } from '@/features/auth/hooks';
+import { RecordFitsPanel } from '@/features/fits/components/record-fits-panel';
 import { deleteRecord, invalidateWellRecords, recordFileUrl, recordKeys, recordQueryOptions, recordSeriesQueryOptions } from '@/features/records/api';
 import { RecoveryCurve } from '@/features/records/components/recovery-curve';
 import { DIRECTION_LABELS, formatBytes, formatCount, formatDuration, formatLevel, recordTitle, REFERENCE_LABELS } from '@/features/records/format';
@@ -237,6 +238,14 @@ function RecordPage({ siteId, recordId }: { siteId: string; recordId: string }) 
               ))}
             </ul>
             {record.notes ? <p className="mt-3 text-sm whitespace-pre-line text-slate-700">{record.notes}</p> : null}
+          </CardBody>
+        </Card>
+        <Card aria-labelledby="record-fits" className="min-w-0 lg:col-span-3">
+          <CardHeader titleId="record-fits" title="Fits of this record" />
+          <CardBody>
+            <QueryBoundary loadingLabel="Loading the fits…" errorTitle="The fits could not be loaded">
+              <RecordFitsPanel siteId={site.id} recordId={record.id} displayUnits={site.displayUnits} />
+            </QueryBoundary>
           </CardBody>
         </Card>
         <Card aria-labelledby="record-files" className="min-w-0 lg:col-span-3">
