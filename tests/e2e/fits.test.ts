@@ -111,7 +111,12 @@ describe('fit workspace and check in the browser', () => {
     await openWell(page, target.wellName);
     await expect.poll(() => page.getByTestId('well-k').textContent()).toContain('No Well K yet');
     await e2e.shot(page, 'fits-well-before-1280');
-    await page.getByRole('list', { name: 'Fit a record' }).getByRole('link').first().click();
+    // Well → its record → the record's workspace.
+    await page.locator(`a[href$="/records/${target.recordId}"]`).first().click();
+    await page.waitForURL(new RegExp(`/records/${target.recordId}$`));
+    await page.getByRole('heading', { name: 'Fits of this record' }).waitFor();
+    await e2e.shot(page, 'fits-record-page-before-1280');
+    await page.getByRole('link', { name: 'Fit this record' }).click();
     await page.waitForURL(/\/records\/[0-9a-f-]{36}\/fit$/);
     await page.getByTestId('k-value').waitFor();
     expect(await page.getByText(CAUTIONS[0]).isVisible()).toBe(true);
@@ -189,6 +194,9 @@ describe('fit workspace and check in the browser', () => {
     await page.getByRole('button', { name: 'Confirm: Checked' }).click();
     await expect.poll(() => page.getByRole('heading', { level: 1 }).textContent()).toContain('Checked');
     await e2e.shot(page, 'fits-checked-1280');
+    await page.goto(`/sites/${siteId}/records/${target.recordId}`);
+    await expect.poll(() => page.locator(`a[href$="/fits/${fitId}"]`).count()).toBe(1);
+    await e2e.shot(page, 'fits-record-page-after-1280');
     await openWell(page, target.wellName);
     await expect.poll(() => page.getByTestId('well-k').textContent()).toContain('Geometric mean of 1 Checked fit');
     const wellK = readScientific(await page.getByTestId('well-k').locator('[data-k-si]').textContent());

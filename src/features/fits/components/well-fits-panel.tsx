@@ -8,7 +8,6 @@ import type { Fit } from '@shared/schemas/fits';
 import type { Site } from '@shared/schemas/sites';
 import type { Well } from '@shared/schemas/wells';
 import { isKUnit, K_UNITS, type KUnit } from '@shared/units/conductivity';
-import { ButtonLink } from '@/components/ui/button';
 import { EmptyState } from '@/components/ui/empty-state';
 import { QueryBoundary } from '@/components/ui/error-boundary';
 import { InlineSelect } from '@/components/ui/field';
@@ -173,9 +172,12 @@ function RepeatTests({ site, wellId }: { site: Site; wellId: string }) {
       <ul className="flex flex-wrap gap-2" aria-label="Fit a record">
         {ordered.map((r) => (
           <li key={r.id}>
-            <ButtonLink to={`/sites/${site.id}/records/${r.id}/fit`} variant="secondary" size="sm">
+            <Link
+              to={`/sites/${site.id}/records/${r.id}/fit`}
+              className="inline-flex min-h-8 items-center rounded-md bg-white px-3 py-1 text-sm font-medium text-slate-800 shadow-sm ring-1 ring-slate-300 ring-inset hover:bg-slate-50"
+            >
               New fit: {recordLabel(r)}
-            </ButtonLink>
+            </Link>
           </li>
         ))}
       </ul>
