@@ -1,6 +1,7 @@
 import { EngineInputError } from '../hydraulics/errors';
 import { isTimeColumnFormat, parseClockDuration, timeToSi, type TimeUnit } from '../units/time';
 import { MAX_LINE_ISSUES, RecordFileError, type LineIssue } from './errors';
+import { decodeRecordFile, sniffEncoding } from './text';
 import { parseDecimal } from './number';
 import { TimestampReader } from './timestamp-reader';
 import {
@@ -37,6 +38,8 @@ export interface ParseOptions {
   mappingField?: string;
   /** The text is the start of a longer file: its last line may be cut and is left out. */
   sampled?: boolean;
+  /** For parseSeriesFromBytes: bytes decoded at a time (default CHUNK_BYTES). */
+  chunkBytes?: number;
 }
 
 /**
@@ -151,6 +154,16 @@ function shown(s: string): string {
   return s.length > 40 ? `${s.slice(0, 37)}…` : s;
 }
 
+/** A stretch of decoded text holding whole lines: [start, end) of `text`, its first line numbered `line`. */
+interface TextChunk {
+  text: string;
+  start: number;
+  end: number;
+  line: number;
+  /** Set by the reader: the number of the line after the chunk. */
+  endLine?: number;
+}
+
 /**
  * Reads the mapped time and value columns of a logger export in one pass over the text: no object
  * per row, the readings go straight into two Float64Arrays. Blank lines are skipped. Malformed
@@ -160,9 +173,108 @@ function shown(s: string): string {
  */
 export function parseSeries(text: string, layout: FileLayout, mapping: ColumnMapping, options: ParseOptions = {}): ParsedSeries {
   const field = options.field ?? 'file';
+  const start = nthLine(text, layout.firstDataLine);
+  if (!start) throw new RecordFileError(field, `ends before line ${layout.firstDataLine}, where the readings should start`);
+  let end = text.length;
+  if (options.sampled && text.charCodeAt(end - 1) !== 10) {
+    const lastBreak = text.lastIndexOf('\n');
+    end = lastBreak < 0 ? 0 : lastBreak + 1;
+  }
+  // One slot per line that has text after its start (a final line break starts no line).
+  let capacity = 0;
+  for (let q = start.start; q < end; ) {
+    capacity++;
+    const nl = text.indexOf('\n', q);
+    if (nl < 0 || nl >= end) break;
+    q = nl + 1;
+  }
+  return readSeries(text, layout, mapping, options, capacity, [{ text, start: start.start, end, line: layout.firstDataLine }]);
+}
+
+/** Bytes of text per decoded chunk of a large file: the whole file never exists as one string. */
+export const CHUNK_BYTES = 4 * 1024 * 1024;
+
+/**
+ * parseSeries straight from the uploaded bytes, decoding them a few megabytes at a time (each
+ * chunk ends at a line break), so a large file is never held as one string beside its bytes.
+ * UTF-16 files and files with only carriage returns are decoded whole; a file that is not valid
+ * UTF-8 is read as Windows-1252, as decodeRecordFile does.
+ */
+export function parseSeriesFromBytes(bytes: Uint8Array, layout: FileLayout, mapping: ColumnMapping, options: ParseOptions = {}): ParsedSeries {
+  const field = options.field ?? 'file';
+  const { encoding, bomLength } = sniffEncoding(bytes, field);
+  if (encoding !== 'utf-8' || (bytes.indexOf(10) < 0 && bytes.indexOf(13) >= 0)) {
+    return parseSeries(decodeRecordFile(bytes, field).text, layout, mapping, options);
+  }
+  let k = bomLength;
+  while (k < bytes.length && (bytes[k] === 32 || bytes[k] === 9 || bytes[k] === 10 || bytes[k] === 13)) k++;
+  if (k === bytes.length) throw new RecordFileError(field, 'holds no readings (only blank lines)');
+  const attempt = (label: 'utf-8' | 'windows-1252'): ParsedSeries => {
+    const decoder = new TextDecoder(label, { fatal: label === 'utf-8' });
+    const decode = (part: Uint8Array): string => {
+      try {
+        return decoder.decode(part);
+      } catch {
+        throw new NotUtf8();
+      }
+    };
+    // Where the readings start, in bytes.
+    let dataStart = bomLength;
+    for (let i = 1; i < layout.firstDataLine; i++) {
+      const nl = bytes.indexOf(10, dataStart);
+      if (nl < 0) throw new RecordFileError(field, `ends before line ${layout.firstDataLine}, where the readings should start`);
+      dataStart = nl + 1;
+    }
+    if (dataStart >= bytes.length) throw new RecordFileError(field, `ends before line ${layout.firstDataLine}, where the readings should start`);
+    let end = bytes.length;
+    if (options.sampled && bytes[end - 1] !== 10) {
+      const lastBreak = bytes.lastIndexOf(10);
+      end = lastBreak < 0 ? 0 : lastBreak + 1;
+    }
+    let capacity = 0;
+    for (let q = dataStart; q < end; ) {
+      capacity++;
+      const nl = bytes.indexOf(10, q);
+      if (nl < 0 || nl >= end) break;
+      q = nl + 1;
+    }
+    const firstLineEnd = bytes.indexOf(10, dataStart);
+    const head = decode(bytes.subarray(bomLength, firstLineEnd < 0 ? end : firstLineEnd + 1));
+    function* chunks(): Generator<TextChunk> {
+      let a = dataStart;
+      let line = layout.firstDataLine;
+      while (a < end) {
+        let b = Math.min(end, a + (options.chunkBytes ?? CHUNK_BYTES));
+        if (b < end) {
+          const nl = bytes.lastIndexOf(10, b - 1);
+          b = nl >= a ? nl + 1 : (bytes.indexOf(10, b) + 1 || end);
+        }
+        const text = decode(bytes.subarray(a, b));
+        const chunk: TextChunk = { text, start: 0, end: text.length, line, endLine: line };
+        yield chunk;
+        // The reader numbered the chunk's lines; the next chunk goes on from there.
+        line = chunk.endLine ?? line;
+        a = b;
+      }
+    }
+    return readSeries(head, layout, mapping, options, capacity, chunks());
+  };
+  try {
+    return attempt('utf-8');
+  } catch (e) {
+    if (e instanceof NotUtf8) return attempt('windows-1252');
+    throw e;
+  }
+}
+
+/** Thrown when the bytes are not UTF-8, to read them again as Windows-1252. */
+class NotUtf8 extends Error {}
+
+function readSeries(head: string, layout: FileLayout, mapping: ColumnMapping, options: ParseOptions, capacity: number, chunks: Iterable<TextChunk>): ParsedSeries {
+  const field = options.field ?? 'file';
   const what = options.what ?? 'The file';
   const mappingField = options.mappingField ?? 'mapping';
-  const names = columnNames(text, layout);
+  const names = columnNames(head, layout);
   if (names.length === 0) {
     throw new RecordFileError(field, `has no line ${layout.headerLine ?? layout.firstDataLine} to read the columns from`);
   }
@@ -180,24 +292,8 @@ export function parseSeries(text: string, layout: FileLayout, mapping: ColumnMap
   const decimal = parseDecimal;
   const unterminated = UNTERMINATED_QUOTE;
   const tooMany = TOO_MANY_FIELDS;
-
-  const start = nthLine(text, layout.firstDataLine);
-  if (!start) throw new RecordFileError(field, `ends before line ${layout.firstDataLine}, where the readings should start`);
-  let end = text.length;
-  if (options.sampled && text.charCodeAt(end - 1) !== 10) {
-    const lastBreak = text.lastIndexOf('\n');
-    end = lastBreak < 0 ? 0 : lastBreak + 1;
-  }
   const lastLine = layout.lastDataLine ?? Infinity;
 
-  // One slot per line that has text after its start (a final line break starts no line).
-  let capacity = 0;
-  for (let q = start.start; q < end; ) {
-    capacity++;
-    const nl = text.indexOf('\n', q);
-    if (nl < 0 || nl >= end) break;
-    q = nl + 1;
-  }
   const time = new Float64Array(capacity);
   const value = new Float64Array(capacity);
   const bounds = createFieldBounds();
@@ -208,112 +304,121 @@ export function parseSeries(text: string, layout: FileLayout, mapping: ColumnMap
     else truncated = true;
   };
 
-  // Without a quote in the readings, a simpler split does; aligned columns keep the general one.
   const delimiterChar = delimiter === 'comma' ? ',' : delimiter === 'semicolon' ? ';' : '\t';
-  const quoteFree = delimiter !== 'whitespace' && text.indexOf('"', start.start) < 0;
   const maxColumns = MAX_COLUMNS;
-  let nextDelimiter = -1;
-
   let row = 0;
-  let line = layout.firstDataLine;
-  let p = start.start;
   let previousTime = -Infinity;
   let previousLine = 0;
+  // Where the previous reading's time was written (its chunk of text and span), for messages.
+  let previousTimeAt = '';
   let previousTimeStart = 0;
   let previousTimeEnd = 0;
   let firstLine = 0;
   let lastRead = 0;
-  for (; p < end && line <= lastLine && !truncated; line++) {
-    let nl = text.indexOf('\n', p);
-    if (nl < 0 || nl >= end) nl = end;
-    let e = nl;
-    if (e > p && text.charCodeAt(e - 1) === 13) e--;
-    const lineStart = p;
-    p = nl + 1;
-    let blank = true;
-    for (let i = lineStart; i < e; i++) {
-      const c = text.charCodeAt(i);
-      if (c !== 32 && c !== 9) {
-        blank = false;
-        break;
-      }
-    }
-    if (blank) continue;
-
-    let n: number;
-    if (quoteFree) {
-      // The common case, no quotes anywhere: fields by indexOf, the next delimiter carried over
-      // from line to line so no search runs past it twice.
-      const starts = bounds.starts;
-      const ends = bounds.ends;
-      n = 0;
-      let a = lineStart;
-      for (;;) {
-        while (a < e && text.charCodeAt(a) === 32) a++;
-        if (nextDelimiter < a) {
-          nextDelimiter = text.indexOf(delimiterChar, a);
-          if (nextDelimiter < 0) nextDelimiter = text.length;
-        }
-        const stop = nextDelimiter < e ? nextDelimiter : e;
-        let b = stop;
-        while (b > a && text.charCodeAt(b - 1) === 32) b--;
-        if (n === maxColumns) {
-          n = tooMany;
+  for (const chunk of chunks) {
+    const text = chunk.text;
+    const end = chunk.end;
+    let line = chunk.line;
+    let p = chunk.start;
+    // Without a quote in the readings, a simpler split does; aligned columns keep the general one.
+    const quoteFree = delimiter !== 'whitespace' && text.indexOf('"', p) < 0;
+    let nextDelimiter = -1;
+    for (; p < end && line <= lastLine && !truncated; line++) {
+      let nl = text.indexOf('\n', p);
+      if (nl < 0 || nl >= end) nl = end;
+      let e = nl;
+      if (e > p && text.charCodeAt(e - 1) === 13) e--;
+      const lineStart = p;
+      p = nl + 1;
+      let blank = true;
+      for (let i = lineStart; i < e; i++) {
+        const c = text.charCodeAt(i);
+        if (c !== 32 && c !== 9) {
+          blank = false;
           break;
         }
-        starts[n] = a;
-        ends[n] = b;
-        n++;
-        if (stop === e) break;
-        a = stop + 1;
       }
-    } else {
-      n = split(text, lineStart, e, delimiter, bounds);
-    }
-    if (n === unterminated) {
-      issue(line, 'a quoted field does not close');
-      continue;
-    }
-    if (n === tooMany || n < expected || significantFieldCount(bounds, n) > expected) {
-      const found = n === tooMany ? `more than ${MAX_COLUMNS}` : String(significantFieldCount(bounds, n));
-      issue(line, `expected ${expected} fields, found ${found}`);
-      continue;
+      if (blank) continue;
+
+      let n: number;
+      if (quoteFree) {
+        // The common case, no quotes anywhere: fields by indexOf, the next delimiter carried over
+        // from line to line so no search runs past it twice.
+        const starts = bounds.starts;
+        const ends = bounds.ends;
+        n = 0;
+        let a = lineStart;
+        for (;;) {
+          while (a < e && text.charCodeAt(a) === 32) a++;
+          if (nextDelimiter < a) {
+            nextDelimiter = text.indexOf(delimiterChar, a);
+            if (nextDelimiter < 0) nextDelimiter = text.length;
+          }
+          const stop = nextDelimiter < e ? nextDelimiter : e;
+          let b = stop;
+          while (b > a && text.charCodeAt(b - 1) === 32) b--;
+          if (n === maxColumns) {
+            n = tooMany;
+            break;
+          }
+          starts[n] = a;
+          ends[n] = b;
+          n++;
+          if (stop === e) break;
+          a = stop + 1;
+        }
+      } else {
+        n = split(text, lineStart, e, delimiter, bounds);
+      }
+      if (n === unterminated) {
+        issue(line, 'a quoted field does not close');
+        continue;
+      }
+      if (n === tooMany || n < expected || significantFieldCount(bounds, n) > expected) {
+        const found = n === tooMany ? `more than ${MAX_COLUMNS}` : String(significantFieldCount(bounds, n));
+        issue(line, `expected ${expected} fields, found ${found}`);
+        continue;
+      }
+
+      let t: number;
+      try {
+        t = readTime(text, bounds);
+      } catch (err) {
+        if (!(err instanceof EngineInputError)) throw err;
+        issue(line, `time ${err.problem}`);
+        continue;
+      }
+      const v = decimal(text, bounds.starts[valueColumn], bounds.ends[valueColumn], decimalComma);
+      if (v !== v) {
+        const raw = fieldText(text, bounds, valueColumn);
+        issue(line, raw === '' ? `column "${names[valueColumn]}" is empty` : `"${shown(raw)}" in column "${names[valueColumn]}" is not a number`);
+        continue;
+      }
+      if (!(t > previousTime)) {
+        const now = text.slice(bounds.starts[firstTimeColumn], bounds.ends[lastTimeColumn]);
+        const before = previousTimeAt.slice(previousTimeStart, previousTimeEnd);
+        issue(
+          line,
+          t === previousTime
+            ? `time ${shown(now)} repeats the time on line ${previousLine}; times must increase`
+            : `time ${shown(now)} goes backwards from ${shown(before)} on line ${previousLine}`,
+        );
+        continue;
+      }
+      previousTime = t;
+      previousLine = line;
+      previousTimeAt = text;
+      previousTimeStart = bounds.starts[firstTimeColumn];
+      previousTimeEnd = bounds.ends[lastTimeColumn];
+      time[row] = t;
+      value[row] = v;
+      if (row === 0) firstLine = line;
+      lastRead = line;
+      row++;
     }
 
-    let t: number;
-    try {
-      t = readTime(text, bounds);
-    } catch (err) {
-      if (!(err instanceof EngineInputError)) throw err;
-      issue(line, `time ${err.problem}`);
-      continue;
-    }
-    const v = decimal(text, bounds.starts[valueColumn], bounds.ends[valueColumn], decimalComma);
-    if (v !== v) {
-      const raw = fieldText(text, bounds, valueColumn);
-      issue(line, raw === '' ? `column "${names[valueColumn]}" is empty` : `"${shown(raw)}" in column "${names[valueColumn]}" is not a number`);
-      continue;
-    }
-    if (!(t > previousTime)) {
-      const now = text.slice(bounds.starts[firstTimeColumn], bounds.ends[lastTimeColumn]);
-      const before = text.slice(previousTimeStart, previousTimeEnd);
-      issue(
-        line,
-        t === previousTime
-          ? `time ${shown(now)} repeats the time on line ${previousLine}; times must increase`
-          : `time ${shown(now)} goes backwards from ${shown(before)} on line ${previousLine}`,
-      );
-      continue;
-    }
-    previousTime = t;
-    previousLine = line;
-    previousTimeStart = bounds.starts[firstTimeColumn];
-    previousTimeEnd = bounds.ends[lastTimeColumn];
-    time[row] = t;
-    value[row] = v;
-    if (row === 0) firstLine = line;
-    lastRead = line;
-    row++;
+    chunk.endLine = line;
+    if (line > lastLine || truncated) break;
   }
 
   if (issues.length > 0) throw RecordFileError.fromIssues(field, what, issues, truncated);

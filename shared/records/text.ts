@@ -27,23 +27,25 @@ function looksBinary(bytes: Uint8Array): boolean {
  * ("Unicode text" from a spreadsheet) or a Windows code page (a degree sign as byte 0xB0); a file
  * with NUL bytes or many control characters is not a text export at all.
  */
-export function decodeRecordFile(bytes: Uint8Array, field = 'file'): DecodedText {
+/**
+ * The encoding a file announces (a UTF-16 byte-order mark) or is taken to have (UTF-8, its own
+ * mark skipped), after refusing an empty or binary file. Reads only the first bytes.
+ */
+export function sniffEncoding(bytes: Uint8Array, field = 'file'): { encoding: 'utf-8' | 'utf-16le' | 'utf-16be'; bomLength: number } {
   if (bytes.length === 0) throw new RecordFileError(field, 'is empty (0 bytes)');
-  let encoding: TextEncodingName;
-  let body = bytes;
-  if (bytes.length >= 2 && bytes[0] === 0xff && bytes[1] === 0xfe) {
-    encoding = 'utf-16le';
-    body = bytes.subarray(2);
-  } else if (bytes.length >= 2 && bytes[0] === 0xfe && bytes[1] === 0xff) {
-    encoding = 'utf-16be';
-    body = bytes.subarray(2);
-  } else {
-    if (looksBinary(bytes)) {
-      throw new RecordFileError(field, 'is not a text file (it contains binary data); export the logger data as CSV or text');
-    }
-    if (bytes.length >= 3 && bytes[0] === 0xef && bytes[1] === 0xbb && bytes[2] === 0xbf) body = bytes.subarray(3);
-    encoding = 'utf-8';
+  if (bytes.length >= 2 && bytes[0] === 0xff && bytes[1] === 0xfe) return { encoding: 'utf-16le', bomLength: 2 };
+  if (bytes.length >= 2 && bytes[0] === 0xfe && bytes[1] === 0xff) return { encoding: 'utf-16be', bomLength: 2 };
+  if (looksBinary(bytes)) {
+    throw new RecordFileError(field, 'is not a text file (it contains binary data); export the logger data as CSV or text');
   }
+  const bom = bytes.length >= 3 && bytes[0] === 0xef && bytes[1] === 0xbb && bytes[2] === 0xbf;
+  return { encoding: 'utf-8', bomLength: bom ? 3 : 0 };
+}
+
+export function decodeRecordFile(bytes: Uint8Array, field = 'file'): DecodedText {
+  const sniffed = sniffEncoding(bytes, field);
+  let encoding: TextEncodingName = sniffed.encoding;
+  const body = bytes.subarray(sniffed.bomLength);
   let text: string;
   try {
     text = new TextDecoder(encoding, { fatal: true }).decode(body);

@@ -189,9 +189,14 @@ export async function run(): Promise<void> {
       recordId = body.id;
     }
 
+    // A points value nobody asked for yet: computed from the stored series (read, log10, LTTB).
+    let t = performance.now();
+    const cold = await fetch(`${baseUrl}/api/records/${recordId}/series?points=1999`, { headers: session.headers });
+    if (cold.status !== 200 || ((await cold.json()) as { elapsedSeconds: number[] }).elapsedSeconds.length !== 1999) throw new Error(`series answered ${cold.status}`);
+    const coldMs = performance.now() - t;
     const series: number[] = [];
     for (let r = 0; r < SERIES_RUNS + 2; r++) {
-      const t = performance.now();
+      t = performance.now();
       const res = await fetch(`${baseUrl}/api/records/${recordId}/series?points=2000`, { headers: session.headers });
       const body = (await res.json()) as { elapsedSeconds: number[] };
       const ms = performance.now() - t;
@@ -210,7 +215,8 @@ export async function run(): Promise<void> {
     console.log(`  (b) full import through POST /api/wells/:id/records (upload, parse, reduce, store) ${fmt(full)}`);
     console.log(`  ratio (b)/(a) ${ratio.toFixed(2)}×  target ≤ ${TARGET_RATIO}×: ${ratio <= TARGET_RATIO ? 'met' : 'NOT met'}; under ${TARGET_IMPORT_MS} ms: ${full < TARGET_IMPORT_MS ? 'met' : 'NOT met'}`);
     console.log(`  peak RSS of the server process (start-up with the demo, ${IMPORT_RUNS} imports, the series calls) ${rssMb.toFixed(0)} MB  target < ${TARGET_RSS_MB} MB: ${rssMb < TARGET_RSS_MB ? 'met' : 'NOT met'}`);
-    console.log(`  GET /api/records/:id/series?points=2000, median of ${SERIES_RUNS}  ${seriesMs.toFixed(1)} ms  target < ${TARGET_SERIES_MS} ms: ${seriesMs < TARGET_SERIES_MS ? 'met' : 'NOT met'}`);
+    console.log(`  GET /api/records/:id/series, first request for a points value (computed: read, log10, LTTB)  ${coldMs.toFixed(1)} ms  target < ${TARGET_SERIES_MS} ms: ${coldMs < TARGET_SERIES_MS ? 'met' : 'NOT met'}`);
+    console.log(`  GET /api/records/:id/series?points=2000, median of ${SERIES_RUNS} (kept from the first)  ${seriesMs.toFixed(1)} ms  target < ${TARGET_SERIES_MS} ms: ${seriesMs < TARGET_SERIES_MS ? 'met' : 'NOT met'}`);
   } finally {
     await server.close();
   }

@@ -1,7 +1,6 @@
 import { EngineInputError } from '@shared/hydraulics/errors';
 import { reduceRecord, type BarometricSeries, type ReducedRecord, type ReductionSettings } from '@shared/hydraulics/reduction';
-import { parseSeries, type ParsedSeries } from '@shared/records/parse';
-import { decodeRecordFile } from '@shared/records/text';
+import { parseSeriesFromBytes, type ParsedSeries } from '@shared/records/parse';
 import type { ColumnMapping, FileLayout } from '@shared/records/types';
 import type { LoggerSettings, TapeBody } from '@shared/schemas/records';
 import { isLengthUnit, lengthSeriesToSi, lengthToSi, type LengthUnit } from '@shared/units/length';
@@ -74,8 +73,7 @@ export function dateInZone(epochSeconds: number, timeZone: string): string | nul
 }
 
 function readFile(bytes: Uint8Array, layout: FileLayout, mapping: ColumnMapping, field: 'file' | 'barometric', mappingField: string, sampled = false): ParsedSeries {
-  const { text } = decodeRecordFile(bytes, field);
-  return parseSeries(text, layout, mapping, {
+  return parseSeriesFromBytes(bytes, layout, mapping, {
     field,
     what: field === 'file' ? 'The logger file' : 'The barometric file',
     mappingField,

@@ -1,3 +1,4 @@
+import { createHash } from 'node:crypto';
 import type { RequestHandler } from 'express';
 import multer from 'multer';
 import { z } from 'zod';
@@ -61,7 +62,10 @@ function singleCopyStorage(): multer.StorageEngine {
       let buffer = room > 0 ? Buffer.allocUnsafe(room) : null;
       const chunks: Buffer[] = [];
       let size = 0;
+      // The SHA-256 of the stored file, computed while it arrives rather than after.
+      const hash = createHash('sha256');
       file.stream.on('data', (chunk: Buffer) => {
+        hash.update(chunk);
         if (buffer && size + chunk.length <= buffer.length) chunk.copy(buffer, size);
         else {
           if (buffer) chunks.push(buffer.subarray(0, size));
@@ -74,7 +78,7 @@ function singleCopyStorage(): multer.StorageEngine {
       file.stream.on('end', () => {
         received.set(req, before + size);
         const bytes = buffer ? buffer.subarray(0, size) : Buffer.concat(chunks, size);
-        cb(null, { buffer: bytes, size });
+        cb(null, { buffer: bytes, size, sha256: hash.digest('hex') } as Partial<Express.Multer.File>);
       });
     },
     _removeFile(_req, file, cb) {

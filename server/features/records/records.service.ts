@@ -34,6 +34,8 @@ export interface UploadedFile {
   mimetype: string;
   buffer: Buffer;
   size: number;
+  /** Computed by the upload storage as the bytes arrived. */
+  sha256?: string;
 }
 
 export interface UploadedFiles {
@@ -138,7 +140,7 @@ export interface StoreInput {
   read: ReadRecord;
   fieldCrew: string;
   notes: string;
-  files: { role: 'raw' | 'barometric'; name: string; mediaType: string; content: Buffer }[];
+  files: { role: 'raw' | 'barometric'; name: string; mediaType: string; content: Buffer; sha256?: string }[];
   isDemo?: boolean;
 }
 
@@ -180,7 +182,7 @@ export async function storeRecord(m: EntityManager, input: StoreInput): Promise<
       name: f.name,
       mediaType: f.mediaType,
       sizeBytes: f.content.length,
-      sha256: sha256(f.content),
+      sha256: f.sha256 ?? sha256(f.content),
       content: f.content,
     });
   }
@@ -310,8 +312,12 @@ function previewOfFile(
   };
 }
 
+/** Downsampled series kept per (record, scale, points): a record's readings never change once stored. */
+const SERIES_CACHE_ENTRIES = 64;
+
 export function createRecordsService({ ds }: { ds: DataSource }) {
   const records = ds.getRepository(RecordEntity);
+  const seriesCache = new Map<string, Series>();
 
   async function wellOrThrow(wellId: string): Promise<Well> {
     const well = await ds.getRepository(Well).findOne({ where: { id: wellId } });
@@ -353,10 +359,10 @@ export function createRecordsService({ ds }: { ds: DataSource }) {
     const settings = parseLoggerSettings(settingsText);
     const read = withEngineErrors(() => readLogger({ file: files.file!.buffer, barometric: files.barometric?.buffer, settings }));
     const stored: StoreInput['files'] = [
-      { role: 'raw', name: safeFileName(files.file.originalname, 'logger-file.csv'), mediaType: safeMediaType(files.file.mimetype), content: files.file.buffer },
+      { role: 'raw', name: safeFileName(files.file.originalname, 'logger-file.csv'), mediaType: safeMediaType(files.file.mimetype), content: files.file.buffer, sha256: files.file.sha256 },
     ];
     if (files.barometric) {
-      stored.push({ role: 'barometric', name: safeFileName(files.barometric.originalname, 'barometric-file.csv'), mediaType: safeMediaType(files.barometric.mimetype), content: files.barometric.buffer });
+      stored.push({ role: 'barometric', name: safeFileName(files.barometric.originalname, 'barometric-file.csv'), mediaType: safeMediaType(files.barometric.mimetype), content: files.barometric.buffer, sha256: files.barometric.sha256 });
     }
     const id = await ds.transaction((m) =>
       storeRecord(m, {
@@ -372,6 +378,7 @@ export function createRecordsService({ ds }: { ds: DataSource }) {
         files: stored,
       }),
     );
+    warmSeries(id);
     return get(id);
   }
 
@@ -476,6 +483,21 @@ export function createRecordsService({ ds }: { ds: DataSource }) {
   }
 
   async function series(recordId: string, points: number, scale: 'log' | 'linear' = 'log'): Promise<Series> {
+    const key = `${recordId}|${scale}|${points}`;
+    const cached = seriesCache.get(key);
+    if (cached) {
+      // Least recently used goes first: re-insert on every hit.
+      seriesCache.delete(key);
+      seriesCache.set(key, cached);
+      return cached;
+    }
+    const computed = await computeSeries(recordId, points, scale);
+    seriesCache.set(key, computed);
+    if (seriesCache.size > SERIES_CACHE_ENTRIES) seriesCache.delete(seriesCache.keys().next().value as string);
+    return computed;
+  }
+
+  async function computeSeries(recordId: string, points: number, scale: 'log' | 'linear'): Promise<Series> {
     const row = await ds
       .getRepository(RecordSeries)
       .createQueryBuilder('s')
@@ -524,6 +546,12 @@ export function createRecordsService({ ds }: { ds: DataSource }) {
   async function remove(recordId: string): Promise<void> {
     const result = await records.delete({ id: recordId });
     if (!result.affected) throw notFound('The record');
+    for (const key of [...seriesCache.keys()]) if (key.startsWith(`${recordId}|`)) seriesCache.delete(key);
+  }
+
+  /** The record page asks for the default curve next: compute it after the answer has gone. */
+  function warmSeries(recordId: string): void {
+    setImmediate(() => void series(recordId, 2000, 'log').catch(() => undefined));
   }
 
   return { get, list, importLogger, importTape, preview, series, file, remove };

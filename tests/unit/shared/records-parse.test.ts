@@ -6,7 +6,7 @@ import { describe, expect, it } from 'vitest';
 import { detectLayout } from '@shared/records/detect';
 import { RecordFileError } from '@shared/records/errors';
 import { parseDecimalText } from '@shared/records/number';
-import { parseSeries, previewRows } from '@shared/records/parse';
+import { parseSeries, parseSeriesFromBytes, previewRows } from '@shared/records/parse';
 import { decodeRecordFile } from '@shared/records/text';
 import { TimestampReader } from '@shared/records/timestamp-reader';
 import { createFieldBounds, splitFields } from '@shared/records/tokenize';
@@ -263,5 +263,42 @@ describe('the fast number and timestamp paths', () => {
       ),
       { numRuns: 500 },
     );
+  });
+});
+
+describe('reading straight from the uploaded bytes, a few megabytes at a time', () => {
+  const both = (bytes: Uint8Array, chunkBytes: number) => {
+    const text = decodeRecordFile(bytes).text;
+    const d = detectLayout(text);
+    const mapping = { ...d.mapping!, time: { ...d.mapping!.time, timeZone: 'Europe/Berlin' } };
+    return { fromText: parseSeries(text, d.layout, mapping), fromBytes: parseSeriesFromBytes(bytes, d.layout, mapping, { chunkBytes }) };
+  };
+
+  it.each(['vented-comma.csv', 'absolute-semicolon.csv', 'baro-tab.txt', 'iso-offset.csv', 'date-time-columns.csv', 'whitespace-elapsed.txt'])(
+    'gives what the text reader gives for %s, in chunks of 97 bytes',
+    (name) => {
+      const { fromText, fromBytes } = both(fixtureBytes(name), 97);
+      expect(Array.from(fromBytes.timeSeconds)).toEqual(Array.from(fromText.timeSeconds));
+      expect(Array.from(fromBytes.value)).toEqual(Array.from(fromText.value));
+      expect([fromBytes.firstLine, fromBytes.lastLine]).toEqual([fromText.firstLine, fromText.lastLine]);
+    },
+  );
+
+  it('numbers the lines of problems across chunks as the text reader does', () => {
+    const bytes = fixtureBytes('malformed.csv');
+    const text = decodeRecordFile(bytes).text;
+    const layout = detectLayout(text).layout;
+    const fromBytes = caught(() => parseSeriesFromBytes(bytes, layout, ELAPSED_MAPPING, { chunkBytes: 20 }));
+    expect(fromBytes.issues).toEqual(caught(() => parseSeries(text, layout, ELAPSED_MAPPING)).issues);
+  });
+
+  it('reads a UTF-8 byte-order mark, a Windows-1252 degree sign and UTF-16 as the text reader does', () => {
+    const rows = 'Zeit (s);Pegel °C (m)\n0;1,5\n1;1,4\n2;1,3\n';
+    const layout: FileLayout = { delimiter: 'semicolon', headerLine: 1, unitsLine: null, firstDataLine: 2, lastDataLine: null, decimalComma: true };
+    const mapping: ColumnMapping = { time: { columns: [0], format: 's' }, valueColumn: 1 };
+    const latin = Uint8Array.from(Buffer.from(rows, 'latin1'));
+    const utf16 = Buffer.concat([Buffer.from([0xff, 0xfe]), Buffer.from(rows, 'utf16le')]);
+    const bom = Buffer.concat([Buffer.from([0xef, 0xbb, 0xbf]), Buffer.from(rows, 'utf8')]);
+    for (const bytes of [latin, utf16, bom]) expect(Array.from(parseSeriesFromBytes(bytes, layout, mapping, { chunkBytes: 7 }).value)).toEqual([1.5, 1.4, 1.3]);
   });
 });
