@@ -336,5 +336,35 @@ describe('fit workspace and check in the browser', () => {
     expect(saved.options.allowOscillation).toBe(true);
     expect(saved.flags.some((f: { code: string }) => f.code === 'oscillation')).toBe(true);
   });
-});
 
+  it('overlays the normalized curves of a well’s repeat tests, one colour per record, and flags curves that disagree', async () => {
+    const wells = (await analystApi.get(`/api/sites/${siteId}/wells`)).body.wells as { id: string; name: string }[];
+    const well = wells[1];
+    const geometry = wellGeometry(await e2e.ts.ds.getRepository(Well).findOneByOrFail({ id: well.id }));
+    // Two repeat tape records of the same well, one recovering 1.6 times slower (invented, for the test).
+    for (const [i, k] of [3e-5, 3e-5 / 1.6].entries()) {
+      const t0 = hvorslevT0Seconds(geometry, k);
+      const readings = Array.from({ length: 41 }, (_, j) => {
+        const t = Number(((j * 4 * t0) / 40).toFixed(2));
+        return { time: t, depth: Number((3.2 + 0.6 * Math.exp(-t / t0)).toFixed(5)) };
+      });
+      const r = await analystApi.post(`/api/wells/${well.id}/records`, {
+        testType: 'bail-down', readings, timeFormat: 's', units: 'm', static: 3.2, testStart: 0, testDate: `2026-11-2${i + 2}`,
+        notes: 'Repeat test for the browser test (invented)',
+      });
+      expect(r.status, JSON.stringify(r.body)).toBe(201);
+    }
+    const count = ((await analystApi.get(`/api/wells/${well.id}/records`)).body.records as unknown[]).length;
+    expect(count).toBeGreaterThanOrEqual(2);
+    const page = await e2e.newPage({ width: 1280, height: 900 });
+    await e2e.signIn(page, demoEmail('Checker'));
+    await openWell(page, well.name);
+    const legend = page.getByRole('list', { name: 'Records in the plot' });
+    await expect.poll(() => legend.getByRole('listitem').count()).toBe(count);
+    const colours = await legend.locator('span[aria-hidden="true"]').evaluateAll((els) => els.map((e) => getComputedStyle(e).backgroundColor));
+    expect(new Set(colours).size).toBe(count);
+    expect(await page.locator('[data-flag="repeat-tests-disagree"]').count()).toBe(1);
+    await page.getByRole('heading', { name: 'Well K, fits and repeat tests' }).scrollIntoViewIfNeeded();
+    await e2e.shot(page, 'fits-repeat-tests-1280');
+  });
+});

@@ -58,7 +58,7 @@ function WellKSummary({ wellId, kUnit }: { wellId: string; kUnit: KUnit }) {
 function FitsTable({ site, wellId, kUnit, labels }: { site: Site; wellId: string; kUnit: KUnit; labels: Map<string, string> }) {
   const { data } = useSuspenseQuery(wellFitsQueryOptions(wellId));
   const fits = latestRevisions(data);
-  if (fits.length === 0) return <p className="text-sm text-slate-600">No fits yet. Open a record below and fit it.</p>;
+  if (fits.length === 0) return <p className="text-sm text-slate-600">No fits yet: open one of the well’s records and fit it.</p>;
   return (
     <Table caption="Fits of the well's records, latest revision of each" stackOnMobile minWidth="min-w-[44rem]">
       <thead>
