@@ -51,17 +51,21 @@ export function WellRecordsPanel({ siteId, wellId, canEdit, displayUnits = 'SI' 
             {records.map((r) => (
               <tr key={r.id}>
                 <Td label="Test">
+                  <span>
                   <span className="font-medium text-slate-900">{RECORD_TEST_TYPE_LABELS[r.testType]}</span>
                   {r.warnings.length > 0 ? (
                     <span className="ml-2 rounded bg-amber-50 px-1.5 py-0.5 text-xs text-amber-900 ring-1 ring-amber-200">
                       {r.warnings.length === 1 ? '1 warning' : `${r.warnings.length} warnings`}
                     </span>
                   ) : null}
+                  </span>
                 </Td>
                 <Td label="Date">{r.testDate ? formatDate(r.testDate) : '—'}</Td>
                 <Td label="Source">
-                  {SOURCE_LABELS[r.source]}
-                  <span className="block text-xs text-slate-500">{REFERENCE_SHORT[r.reference]}</span>
+                  <span>
+                    {SOURCE_LABELS[r.source]}
+                    <span className="block text-xs text-slate-500">{REFERENCE_SHORT[r.reference]}</span>
+                  </span>
                 </Td>
                 <Td label="Readings" className="text-right tabular-nums">
                   {formatCount(r.sampleCount)}
