@@ -402,6 +402,42 @@ describe('bad input is refused with the field or line named, and nothing is stor
   });
 });
 
+describe('odd files and settings', () => {
+  const ODD: [string, Buffer][] = [
+    ['one column', Buffer.from('level\n1\n2\n3\n')],
+    ['header only', Buffer.from('time,level\n')],
+    ['one very long line', Buffer.from(`${'9,'.repeat(20000)}9\n`)],
+    ['only quotes', Buffer.from('"""\n"a""b"\n"\n')],
+    ['words', Buffer.from('the quick brown fox\njumps over\nthe lazy dog\n')],
+    ['CR line ends', Buffer.from('t,level\r0,1\r1,0.5\r2,0.25\r')],
+    ['UTF-16', Buffer.concat([Buffer.from([0xff, 0xfe]), Buffer.from('t,level\n0,1\n1,0.5\n2,0.25\n3,0.1\n', 'utf16le')])],
+  ];
+
+  it('are answered with a preview or a 400, never a 5xx, and nothing is stored', async () => {
+    const before = await storedCounts();
+    for (const [name, bytes] of ODD) {
+      const p = await analyst.agent.post('/api/records/preview').set('x-csrf-token', analyst.csrf).attach('file', bytes, 'odd.csv');
+      expect([200, 400], `preview of ${name}: ${p.status}`).toContain(p.status);
+      const u = await upload(analyst, ELAPSED, { bytes, name: 'odd.csv' });
+      expect(u.status, `upload of ${name}: ${JSON.stringify(u.body)}`).toBe(400);
+    }
+    for (const settings of [
+      { ...ELAPSED, layout: { ...ELAPSED.layout, firstDataLine: 999 } },
+      { ...ELAPSED, layout: { ...ELAPSED.layout, headerLine: 5, firstDataLine: 3 } },
+      { ...ELAPSED, mapping: { time: { columns: [0, 0, 0, 0], format: 'timestamp' }, valueColumn: 1 } },
+      { ...ELAPSED, mapping: { time: { columns: [0], format: 'timestamp', timestampLayout: 'iso', timeZone: 'Mars/Olympus_Mons' }, valueColumn: 1 } },
+      { ...ELAPSED, mapping: { time: { columns: [1], format: 's' }, valueColumn: 1 } },
+      { ...ELAPSED, testStartSeconds: 1e9 },
+      { ...ELAPSED, staticLevel: { value: 'high', unit: 'm' } },
+    ]) {
+      const u = await upload(analyst, settings, { bytes: elapsedFile(recoveryRows()), name: 'x.csv' });
+      expect(u.status, JSON.stringify(u.body)).toBe(400);
+      expect(Object.keys(u.body.error.fields ?? {}).length).toBeGreaterThan(0);
+    }
+    expect(await storedCounts()).toEqual(before);
+  });
+});
+
 describe('a file over RECORD_MAX_UPLOAD_MB', () => {
   let small: TestServer;
   beforeAll(async () => {
@@ -441,6 +477,8 @@ describe('a logger file of one million readings', () => {
     expect(s.body.elapsedSeconds[0]).toBe(0);
     expect(s.body.normalizedHead[0]).toBe(1);
     expect(s.body.elapsedSeconds[1999]).toBeCloseTo(n / 10 - 0.1 - 30, 6);
+    // The kept points lie on the curve that was uploaded: H/H0 = exp(−t / 20 000 s), to the file's 5 decimals.
+    s.body.elapsedSeconds.forEach((t: number, i: number) => expect(Math.abs(s.body.normalizedHead[i] - Math.exp(-t / 20000))).toBeLessThan(2e-5));
     await analyst.delete(`/api/records/${r.body.id}`).expect(204);
   }, 60_000);
 });

@@ -292,13 +292,14 @@ describe('reading straight from the uploaded bytes, a few megabytes at a time', 
     expect(fromBytes.issues).toEqual(caught(() => parseSeries(text, layout, ELAPSED_MAPPING)).issues);
   });
 
-  it('reads a UTF-8 byte-order mark, a Windows-1252 degree sign and UTF-16 as the text reader does', () => {
+  it('reads a UTF-8 byte-order mark, a Windows-1252 degree sign, UTF-16 and carriage-return line ends as the text reader does', () => {
     const rows = 'Zeit (s);Pegel °C (m)\n0;1,5\n1;1,4\n2;1,3\n';
     const layout: FileLayout = { delimiter: 'semicolon', headerLine: 1, unitsLine: null, firstDataLine: 2, lastDataLine: null, decimalComma: true };
     const mapping: ColumnMapping = { time: { columns: [0], format: 's' }, valueColumn: 1 };
     const latin = Uint8Array.from(Buffer.from(rows, 'latin1'));
     const utf16 = Buffer.concat([Buffer.from([0xff, 0xfe]), Buffer.from(rows, 'utf16le')]);
     const bom = Buffer.concat([Buffer.from([0xef, 0xbb, 0xbf]), Buffer.from(rows, 'utf8')]);
-    for (const bytes of [latin, utf16, bom]) expect(Array.from(parseSeriesFromBytes(bytes, layout, mapping, { chunkBytes: 7 }).value)).toEqual([1.5, 1.4, 1.3]);
+    const classicMac = Buffer.from(rows.replace(/\n/g, '\r'), 'utf8');
+    for (const bytes of [latin, utf16, bom, classicMac]) expect(Array.from(parseSeriesFromBytes(bytes, layout, mapping, { chunkBytes: 7 }).value)).toEqual([1.5, 1.4, 1.3]);
   });
 });
