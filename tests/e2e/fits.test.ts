@@ -296,6 +296,20 @@ describe('fit workspace and check in the browser', () => {
     await openWell(page, target.wellName);
     await e2e.shot(page, 'fits-well-390');
     expect(await overflow(page)).toBeLessThanOrEqual(0);
+    await signOut(page);
+
+    // The Checker's queue stacks each fit as a card, and a fit under review keeps its actions at hand.
+    await e2e.signIn(page, demoEmail('Checker'));
+    await page.goto('/checks');
+    const review = page.getByRole('link', { name: /^Review the fit of / }).first();
+    await review.waitFor();
+    await e2e.shot(page, 'fits-checks-checker-390');
+    expect(await overflow(page)).toBeLessThanOrEqual(0);
+    await review.click();
+    await page.getByTestId('k-value').waitFor();
+    expect(await page.getByRole('button', { name: 'Send back', exact: true }).isVisible()).toBe(true);
+    await e2e.shot(page, 'fits-review-checker-390');
+    expect(await overflow(page)).toBeLessThanOrEqual(0);
   });
 
   it('refuses to fit the oscillating demo record silently: the reason, then an explicit override with the flag kept', async () => {
