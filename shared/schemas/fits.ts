@@ -198,3 +198,30 @@ export const checkQueueItemSchema = z.object({
   flagCount: z.number().int(),
 });
 export const checkQueueSchema = z.object({ items: z.array(checkQueueItemSchema) });
+
+/** GET /api/records/:recordId/reduced: the reduced series the workspace's in-browser preview runs on. */
+export const reducedRecordSchema = z.object({
+  recordId: z.string(),
+  wellId: z.string(),
+  siteId: z.string(),
+  reference: z.enum(['depth', 'vented', 'absolute']),
+  testType: z.enum(['rising-head', 'falling-head']),
+  staticLevelM: z.number(),
+  staticSource: z.enum(['entered', 'pre-test']),
+  preTestCount: z.number().int(),
+  testStartSeconds: z.number(),
+  testStartIndex: z.number().int(),
+  testStartSource: z.enum(['entered', 'detected']),
+  h0M: z.number(),
+  /** Readings of the whole record. */
+  readings: z.number().int(),
+  /** True when the arrays below hold fewer readings than the record. */
+  decimated: z.boolean(),
+  elapsedSeconds: z.array(z.number()),
+  displacementM: z.array(z.number()),
+  normalizedHead: z.array(z.number()),
+  slugVolumeM3: z.number().nullable(),
+  defaultGeometry: fitGeometrySchema,
+  hydroUnit: z.string().nullable(),
+});
+export type ReducedRecordDto = z.infer<typeof reducedRecordSchema>;

@@ -6,10 +6,10 @@ import {
   checkQueueSchema,
   fitAuditSchema,
   fitBodySchema,
-  fitGeometrySchema,
   fitListSchema,
   fitPatchSchema,
   fitSchema,
+  reducedRecordSchema,
   wellKSchema,
 } from '@shared/schemas/fits';
 import type { AppContext } from '../../context';
@@ -23,36 +23,13 @@ const fitParams = z.object({ fitId: uuid('Fit id') });
 const wellParams = z.object({ wellId: uuid('Well id') });
 const actor = (req: Request): Actor => ({ user: req.user!, role: req.siteAccess?.role ?? null });
 
-const reducedSchema = z.object({
-  recordId: z.string(),
-  wellId: z.string(),
-  siteId: z.string(),
-  reference: z.enum(['depth', 'vented', 'absolute']),
-  testType: z.enum(['rising-head', 'falling-head']),
-  staticLevelM: z.number(),
-  staticSource: z.enum(['entered', 'pre-test']),
-  preTestCount: z.number(),
-  testStartSeconds: z.number(),
-  testStartIndex: z.number(),
-  testStartSource: z.enum(['entered', 'detected']),
-  h0M: z.number(),
-  readings: z.number(),
-  decimated: z.boolean(),
-  elapsedSeconds: z.array(z.number()),
-  displacementM: z.array(z.number()),
-  normalizedHead: z.array(z.number()),
-  slugVolumeM3: z.number().nullable(),
-  defaultGeometry: fitGeometrySchema,
-  hydroUnit: z.string().nullable(),
-});
-
 export function fitsRoutes(ctx: AppContext): RouteDef[] {
   const svc = createFitsService(ctx);
   return [
     {
       method: 'get', path: '/api/records/:recordId/reduced', tag: 'Fits', summary: "A record's reduced series for the workspace's in-browser preview (decimated beyond maxPoints)",
       params: recordParams, query: z.object({ maxPoints: z.coerce.number().int().min(100, 'maxPoints is at least 100').max(200_000, 'maxPoints is at most 200000').default(20_000) }),
-      responses: { 200: { description: 'Reduced record', schema: reducedSchema }, 404: err('No such record') },
+      responses: { 200: { description: 'Reduced record', schema: reducedRecordSchema }, 404: err('No such record') },
       handler: (req) => svc.reducedFor(String(req.params.recordId), Number((req.query as unknown as { maxPoints: number }).maxPoints)),
     },
     {

@@ -1,46 +1,22 @@
 import { queryOptions, type QueryClient } from '@tanstack/react-query';
-import { z } from 'zod';
 import { api, seg } from '@/lib/api-client';
 import {
   checkQueueSchema,
   fitAuditSchema,
-  fitGeometrySchema,
   fitListSchema,
   fitSchema,
+  reducedRecordSchema,
   wellKSchema,
   type CheckBody,
   type Fit,
   type FitBody,
   type FitPatch,
+  type ReducedRecordDto,
 } from '@shared/schemas/fits';
 import { recordListSchema, recordSchema, seriesSchema } from '@shared/schemas/records';
 
-/** GET /api/records/:recordId/reduced: the reduced series the engine previews on. */
-export const reducedDtoSchema = z.object({
-  recordId: z.string(),
-  wellId: z.string(),
-  siteId: z.string(),
-  reference: z.enum(['depth', 'vented', 'absolute']),
-  testType: z.enum(['rising-head', 'falling-head']),
-  staticLevelM: z.number(),
-  staticSource: z.enum(['entered', 'pre-test']),
-  preTestCount: z.number().int(),
-  testStartSeconds: z.number(),
-  testStartIndex: z.number().int(),
-  testStartSource: z.enum(['entered', 'detected']),
-  h0M: z.number(),
-  /** Readings of the whole record. */
-  readings: z.number().int(),
-  /** True when the arrays below hold fewer readings than the record. */
-  decimated: z.boolean(),
-  elapsedSeconds: z.array(z.number()),
-  displacementM: z.array(z.number()),
-  normalizedHead: z.array(z.number()),
-  slugVolumeM3: z.number().nullable(),
-  defaultGeometry: fitGeometrySchema,
-  hydroUnit: z.string().nullable(),
-});
-export type ReducedDto = z.infer<typeof reducedDtoSchema>;
+export const reducedDtoSchema = reducedRecordSchema;
+export type ReducedDto = ReducedRecordDto;
 
 /** Readings sent for a preview; the saved result is always computed on all of them. */
 export const PREVIEW_MAX_POINTS = 20000;
