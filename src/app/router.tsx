@@ -9,6 +9,7 @@ import { adminBasemapsQueryOptions } from '@/features/basemaps/api';
 import { siteQueryOptions, sitesQueryOptions } from '@/features/sites/api';
 import { wellQueryOptions, wellsQueryOptions } from '@/features/wells/api';
 import { recordQueryOptions, recordSeriesQueryOptions } from '@/features/records/api';
+import { mapWellsQueryOptions } from '@/features/kmap/api';
 import { checksQueryOptions, fitQueryOptions, recordMetaQueryOptions, reducedQueryOptions, seriesQueryOptions } from '@/features/fits/api';
 import { safeNextPath, signInPathFor } from '@/lib/safe-next';
 import { AcceptInvitationRoute } from './routes/accept-invitation';
@@ -85,6 +86,11 @@ export function createRoutes(queryClient: QueryClient): RouteObject[] {
     void queryClient.prefetchQuery(wellQueryOptions(params.wellId ?? ''));
   });
 
+  const prefetchMap = prefetchWhenSignedIn(({ params }) => {
+    void queryClient.prefetchQuery(siteQueryOptions(params.siteId ?? ''));
+    void queryClient.prefetchQuery(mapWellsQueryOptions(params.siteId ?? ''));
+  });
+
   const prefetchRecord = prefetchWhenSignedIn(({ params }) => {
     void queryClient.prefetchQuery(siteQueryOptions(params.siteId ?? ''));
     void queryClient.prefetchQuery(recordQueryOptions(params.recordId ?? ''));
@@ -151,6 +157,8 @@ export function createRoutes(queryClient: QueryClient): RouteObject[] {
                 { path: 'sites/:siteId/wells/:wellId/records/new/tape', loader: prefetchWell, element: <NewTapeRecordRoute /> },
                 { path: 'sites/:siteId/wells/:wellId/records/new/logger', loader: prefetchWell, element: <NewLoggerRecordRoute /> },
                 { path: 'sites/:siteId/records/:recordId', loader: prefetchRecord, element: <RecordPageRoute /> },
+                // The K map loads maplibre: its own chunk, fetched when the page is opened.
+                { path: 'sites/:siteId/map', loader: prefetchMap, lazy: async () => ({ Component: (await import('./routes/site-map')).SiteMapRoute }) },
                 { path: 'sites/:siteId/records/:recordId/fit', loader: prefetchNewFit, element: <NewFitRoute /> },
                 { path: 'sites/:siteId/fits/:fitId', loader: prefetchFit, element: <FitRoute /> },
                 { path: 'checks', loader: prefetchWhenSignedIn(() => void queryClient.prefetchQuery(checksQueryOptions())), element: <ChecksRoute /> },

@@ -47,6 +47,11 @@ export function AppShell() {
             <NavLink to="/" end className={() => navLink({ isActive: location.pathname === '/' || siteMatch !== null })}>
               Sites
             </NavLink>
+            {siteMatch ? (
+              <NavLink to={`/sites/${siteMatch.params.siteId}/map`} className={navLink}>
+                K map
+              </NavLink>
+            ) : null}
             <ChecksNavLink className={navLink} />
             {me.isAdmin ? (
               <>

@@ -38,6 +38,7 @@ function SiteOverview({ siteId }: { siteId: string }) {
         title={site.name}
         crumbs={[{ label: 'Sites', to: '/' }, { label: site.name }]}
         description={`EPSG:${site.epsgCode} · ${site.crsName}`}
+        actions={<ButtonLink to={`/sites/${site.id}/map`}>K map</ButtonLink>}
       />
       <div className="grid gap-6 lg:grid-cols-[1fr_20rem]">
         <Card aria-labelledby="site-details-title">

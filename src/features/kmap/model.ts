@@ -116,18 +116,34 @@ export const LABEL_SPACING_PX = 80;
 const METRES_PER_PIXEL_AT_ZOOM_0 = 78271.517; // 512-pixel tiles at the equator (WGS 84 a = 6 378 137 m)
 const METRES_PER_DEGREE_LAT = 111_320;
 
+/** Screen pixels per metre on the ground at a zoom and latitude (web mercator, 512-pixel tiles). */
+export function pixelsPerMetre(zoom: number, latDeg: number): number {
+  return 2 ** zoom / (METRES_PER_PIXEL_AT_ZOOM_0 * Math.cos((latDeg * Math.PI) / 180));
+}
+
+export interface WellSpacing {
+  /** The side of the square each well has to itself in the wells' bounding box. */
+  spacingM: number;
+  latDeg: number;
+}
+
+/** How far apart the wells typically are; null for fewer than two wells. */
+export function wellSpacing(features: readonly MapWellFeature[]): WellSpacing | null {
+  const b = boundsOf(features);
+  if (!b || features.length < 2) return null;
+  const latDeg = (b[1] + b[3]) / 2;
+  const widthM = (b[2] - b[0]) * METRES_PER_DEGREE_LAT * Math.cos((latDeg * Math.PI) / 180);
+  const heightM = (b[3] - b[1]) * METRES_PER_DEGREE_LAT;
+  return { spacingM: Math.sqrt(Math.max(widthM * heightM, 1) / features.length), latDeg };
+}
+
 /**
- * The zoom from which well names are drawn: where the wells' typical spacing (the side of the
- * square each well has to itself in the wells' bounding box) is LABEL_SPACING_PX wide. A dense
- * network gets its names only close up, which also keeps the label placement cheap.
+ * The zoom from which well names are drawn: where the wells' typical spacing is LABEL_SPACING_PX
+ * wide. A dense network gets its names only close up, which also keeps the label placement cheap.
  */
 export function labelMinZoom(features: readonly MapWellFeature[]): number {
-  const b = boundsOf(features);
-  if (!b || features.length < 2) return 14;
-  const lat = ((b[1] + b[3]) / 2) * (Math.PI / 180);
-  const widthM = (b[2] - b[0]) * METRES_PER_DEGREE_LAT * Math.cos(lat);
-  const heightM = (b[3] - b[1]) * METRES_PER_DEGREE_LAT;
-  const spacingM = Math.sqrt(Math.max(widthM * heightM, 1) / features.length);
-  const zoom = Math.log2((LABEL_SPACING_PX * METRES_PER_PIXEL_AT_ZOOM_0 * Math.cos(lat)) / spacingM);
+  const s = wellSpacing(features);
+  if (!s) return 14;
+  const zoom = Math.log2(LABEL_SPACING_PX / pixelsPerMetre(0, s.latDeg) / s.spacingM);
   return Math.min(19, Math.max(14, Math.round(zoom * 2) / 2));
 }
