@@ -12,7 +12,7 @@ import { SCREENSHOTS, startE2E, type E2E } from './driver';
 type MapFeature = {
   id: string;
   geometry: { coordinates: [number, number] };
-  properties: { name: string; wellK: number | null; log10K: number | null; count: number };
+  properties: { name: string; hydroUnit: string | null; wellK: number | null; log10K: number | null; count: number };
 };
 type RGB = [number, number, number];
 
@@ -245,6 +245,97 @@ describe('the K map in the browser', () => {
     expect(distance(before, drawn)).toBeGreaterThan(30);
     expect(distance(drawn, colour)).toBeLessThanOrEqual(3);
     await e2e.shot(page, 'kmap-after-new-fit-1280');
+  });
+
+  it('links the histogram and the map both ways, and filters, unit, layers and basemap change what is drawn', async () => {
+    const page = await e2e.newPage();
+    await e2e.signIn(page, demoEmail('Lead'));
+    await openMap(page, e2e.ts.demoSiteId);
+    const all = await mapWells(e2e.ts.demoSiteId);
+    const legend = page.getByTestId('k-legend');
+
+    // The pointer's position in UTM 32N (metres) and in latitude/longitude.
+    const box = (await page.getByTestId('kmap-map').boundingBox())!;
+    await page.mouse.move(box.x + box.width / 2, box.y + box.height / 2);
+    await expect.poll(() => page.getByTestId('cursor-site').textContent()).toMatch(/^x 5\d\d,\d{3}\.\d m, y 5,2\d\d,\d{3}\.\d m$/);
+    await expect.poll(() => page.getByTestId('cursor-latlon').textContent()).toMatch(/^47\.\d{5}° N, 9\.\d{5}° E$/);
+
+    // Pointing at a bar rings its wells (orange) on the map.
+    const orange = () =>
+      page.evaluate(() => {
+        const c = document.querySelector<HTMLCanvasElement>('[data-testid="kmap-view"] canvas.maplibregl-canvas')!;
+        const copy = document.createElement('canvas');
+        copy.width = c.width;
+        copy.height = c.height;
+        const ctx = copy.getContext('2d')!;
+        ctx.drawImage(c, 0, 0);
+        const d = ctx.getImageData(0, 0, c.width, c.height).data;
+        let n = 0;
+        // The ring colour, #ea580c, give or take the antialiasing.
+        for (let i = 0; i < d.length; i += 4) if (d[i] > 200 && d[i + 1] > 60 && d[i + 1] < 120 && d[i + 2] < 60) n++;
+        return n;
+      });
+    expect(await orange()).toBe(0);
+    const counts = await legend.locator('button[data-bin]').evaluateAll((bs) => bs.map((b) => Number(/^(\d+)/.exec(b.getAttribute('aria-label') ?? '')?.[1] ?? 0)));
+    const bin = counts.indexOf(Math.max(...counts));
+    await legend.locator(`button[data-bin="${bin}"]`).hover();
+    await expect.poll(() => legend.getByText(/ringed on the map/).isVisible()).toBe(true);
+    await mapIdle(page);
+    expect(await orange()).toBeGreaterThan(30);
+    await e2e.shot(page, 'kmap-bin-hover-1280');
+
+    // Shift-drag over the whole map selects every drawn well; their bars are marked.
+    await page.mouse.move(box.x + 8, box.y + 60);
+    await page.keyboard.down('Shift');
+    await page.mouse.down();
+    await page.mouse.move(box.x + box.width / 2, box.y + box.height / 2, { steps: 4 });
+    await page.mouse.move(box.x + box.width - 8, box.y + box.height - 8, { steps: 4 });
+    await page.mouse.up();
+    await page.keyboard.up('Shift');
+    await expect.poll(() => page.getByRole('heading', { name: /^\d+ wells selected$/ }).isVisible()).toBe(true);
+    expect(await legend.locator('button[aria-pressed="true"]').count()).toBeGreaterThan(0);
+    await e2e.shot(page, 'kmap-box-selection-1280');
+    await page.getByRole('button', { name: 'Clear selection' }).click();
+
+    // A unit filter: fewer wells, and the legend and histogram follow.
+    const silt = all.filter((w) => w.properties.hydroUnit === 'Silt').length;
+    await page.getByRole('checkbox', { name: 'Sand and gravel' }).uncheck();
+    await page.getByRole('checkbox', { name: 'Buried channel gravel' }).uncheck();
+    await expect.poll(() => page.getByText(`Showing ${silt} of ${all.length} wells.`).isVisible()).toBe(true);
+    const histogramTotal = async () =>
+      (await legend.locator('button[data-bin]').evaluateAll((bs) => bs.map((b) => Number(/^(\d+)/.exec(b.getAttribute('aria-label') ?? '')?.[1] ?? 0)))).reduce((a, b) => a + b, 0);
+    const siltWithK = all.filter((w) => w.properties.hydroUnit === 'Silt' && w.properties.wellK !== null).length;
+    expect(await histogramTotal()).toBe(siltWithK);
+    await mapIdle(page);
+    await e2e.shot(page, 'kmap-filter-silt-1280');
+    await page.getByRole('checkbox', { name: 'Sand and gravel' }).check();
+    await page.getByRole('checkbox', { name: 'Buried channel gravel' }).check();
+
+    // A screen-elevation range that no screen reaches empties the map.
+    await page.getByLabel('Screen elevation from').fill('500');
+    await expect.poll(() => page.getByText(`Showing 0 of ${all.length} wells.`).isVisible()).toBe(true);
+    await page.getByRole('button', { name: 'Clear', exact: true }).click();
+    await expect.poll(() => page.getByText(`Showing ${all.length} of ${all.length} wells.`).isVisible()).toBe(true);
+
+    // The legend in ft/d: whole decades of ft/d, and the same colour for a given K.
+    const before = await legend.locator('[data-decade]').evaluateAll((ts) => ts.map((t) => Number((t as HTMLElement).dataset.decade)));
+    await page.getByLabel('K unit').selectOption('ft/d');
+    await expect.poll(() => legend.getByText('(ft/d, log scale)').isVisible()).toBe(true);
+    const after = await legend.locator('[data-decade]').evaluateAll((ts) => ts.map((t) => Number((t as HTMLElement).dataset.decade)));
+    // 1 m/s = 283 465 ft/d: about 5.45 decades up.
+    expect(after[0]).toBeGreaterThanOrEqual(before[0] + 5);
+    expect(after[0]).toBeLessThanOrEqual(before[0] + 6);
+    await e2e.shot(page, 'kmap-ft-per-day-1280');
+    await page.getByLabel('K unit').selectOption('m/s');
+
+    // Layer list and basemap switch.
+    await page.getByRole('button', { name: 'Layers' }).click();
+    await page.getByLabel('Basemap').selectOption('plain');
+    await page.getByRole('checkbox', { name: 'Wells without a Checked fit' }).uncheck();
+    await mapIdle(page);
+    expect(await page.getByTestId('kmap-attribution').count()).toBe(0);
+    expect(await page.getByRole('checkbox', { name: 'Well names (close zooms)' }).isEnabled()).toBe(true);
+    await e2e.shot(page, 'kmap-plain-basemap-1280');
   });
 
   it('fits a phone screen, with the legend and panels under the map', async () => {

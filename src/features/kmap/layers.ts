@@ -54,8 +54,8 @@ const hasOutline = (r: number) => r >= OUTLINE_FROM_RADIUS;
 const ringRadius = (sizes: WellSizes) => byZoom(sizes, (r) => r + 3.5);
 
 /** Wells with a Well K carry their histogram bin (0 and up); the others −1. */
-const HAS_WELL_K: FilterSpecification = ['>=', ['get', 'bin'], 0];
-const NO_WELL_K: FilterSpecification = ['<', ['get', 'bin'], 0];
+export const HAS_WELL_K: FilterSpecification = ['>=', ['get', 'bin'], 0];
+export const NO_WELL_K: FilterSpecification = ['<', ['get', 'bin'], 0];
 
 /** Kfield's map colours outside the K scale (which is viridis: violet, blue, green, yellow). */
 export const MAP_COLOURS = {
@@ -148,6 +148,14 @@ export function selectedLayers(ids: readonly string[], sizes: WellSizes): [Wells
 
 /** The font the built-in basemap's glyphs are made from (tiles/). */
 export const LABEL_FONT = ['Roboto Flex Regular'];
+
+/** The names of the wells drawn: all, only those with a Well K, or only those without. */
+export function labelsFilter(withK: boolean, withoutK: boolean): FilterSpecification {
+  if (withK && withoutK) return ['has', 'name'];
+  if (withK) return HAS_WELL_K;
+  if (withoutK) return NO_WELL_K;
+  return ['==', ['get', 'bin'], -2];
+}
 
 /** Well names beside the wells once the view is close enough to read them (minzoom: see labelMinZoom). */
 export const labelsLayer: WellsLayer<SymbolLayerSpecification> = {

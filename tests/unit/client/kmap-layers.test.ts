@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { validateStyleMin, type StyleSpecification } from '@maplibre/maplibre-gl-style-spec';
 import { colourExpression, decadeDomain, kColourScale } from '@/features/kmap/colour';
-import { WELLS_SOURCE, binHighlightLayer, labelsLayer, selectedLayers, unanalysedLayer, wellSizes, wellsLayer } from '@/features/kmap/layers';
+import { WELLS_SOURCE, binHighlightLayer, labelsFilter, labelsLayer, selectedLayers, unanalysedLayer, wellSizes, wellsLayer } from '@/features/kmap/layers';
 import { pixelsPerMetre } from '@/features/kmap/model';
 
 const at = (spacingM: number) => (zoom: number) => spacingM * pixelsPerMetre(zoom, 47.76);
@@ -19,6 +19,7 @@ describe('K map layers', () => {
         wellsLayer(colourExpression(kColourScale(decadeDomain([-6, -3], 'm/s'))), sizes),
         binHighlightLayer(3, sizes),
         labelsLayer,
+        ...([[true, false], [false, true], [false, false]] as const).map(([a, b], i) => ({ ...labelsLayer, id: `names-${i}`, filter: labelsFilter(a, b) })),
       ],
     } as unknown as StyleSpecification;
     expect(validateStyleMin(style).map((e) => e.message)).toEqual([]);

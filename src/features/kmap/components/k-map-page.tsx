@@ -29,11 +29,15 @@ const count = (n: number) => n.toLocaleString('en');
 
 /** No basemap: a plain background, for an instance whose tiles are missing or a cleaner print. */
 export const PLAIN_BASEMAP_ID = 'plain';
-const PLAIN_STYLE: StyleSpecification = {
-  version: 8,
-  sources: {},
-  layers: [{ id: 'background', type: 'background', paint: { 'background-color': '#eef1ee' } }],
-};
+function plainStyle(): StyleSpecification {
+  return {
+    version: 8,
+    // The app's own glyphs, so the well names still show; maplibre wants an absolute URL.
+    glyphs: `${window.location.origin}/tiles/glyphs/{fontstack}/{range}.pbf`,
+    sources: {},
+    layers: [{ id: 'background', type: 'background', paint: { 'background-color': '#eef1ee' } }],
+  };
+}
 
 interface Props {
   site: Site;
@@ -59,7 +63,7 @@ export function KMapPage({ site, wells, crsUnit, basemaps }: Props) {
   const basemapChoices = useMemo(() => {
     const list = basemaps.map((b) => ({ id: b.id, name: b.name, styleUrl: b.styleUrl as string | StyleSpecification }));
     if (!list.some((b) => b.styleUrl === site.basemapStyleUrl)) list.unshift({ id: 'site', name: 'Site basemap', styleUrl: site.basemapStyleUrl });
-    list.push({ id: PLAIN_BASEMAP_ID, name: 'None (plain background)', styleUrl: PLAIN_STYLE });
+    list.push({ id: PLAIN_BASEMAP_ID, name: 'None (plain background)', styleUrl: plainStyle() });
     return list;
   }, [basemaps, site.basemapStyleUrl]);
   const [basemapId, setBasemapId] = useState(() => basemapChoices.find((b) => b.styleUrl === site.basemapStyleUrl)?.id ?? basemapChoices[0].id);

@@ -4,7 +4,7 @@ import type { ExpressionSpecification, MapMouseEvent, StyleSpecification } from 
 import type { FeatureCollection, Point } from 'geojson';
 import type { DisplayUnits } from '@shared/schemas/sites';
 import { maplibre } from '@/lib/maplibre-init';
-import { WELL_LAYER_IDS, WELLS_SOURCE, binHighlightLayer, labelsLayer, selectedLayers, unanalysedLayer, wellsLayer, type WellSizes } from '../layers';
+import { WELL_LAYER_IDS, WELLS_SOURCE, binHighlightLayer, labelsFilter, labelsLayer, selectedLayers, unanalysedLayer, wellsLayer, type WellSizes } from '../layers';
 import type { SourceWellProperties } from '../model';
 import type { CursorStore } from './cursor-store';
 
@@ -107,7 +107,14 @@ export function KMap(props: KMapProps) {
           <Layer {...wells} layout={{ visibility: visible(visibility.wells) }} />
           <Layer {...highlight} layout={{ visibility: visible(hoveredBin >= 0) }} />
           <Layer {...ring} layout={{ visibility: visible(visibility.wells || visibility.unanalysed) }} />
-          {hasGlyphs ? <Layer {...labelsLayer} minzoom={labelMinZoom} layout={{ ...labelsLayer.layout, visibility: visible(visibility.labels) }} /> : null}
+          {hasGlyphs ? (
+            <Layer
+              {...labelsLayer}
+              minzoom={labelMinZoom}
+              filter={labelsFilter(visibility.wells, visibility.unanalysed)}
+              layout={{ ...labelsLayer.layout, visibility: visible(visibility.labels) }}
+            />
+          ) : null}
         </Source>
         <PointerTracker cursor={cursor} />
         <BoxSelect onSelect={(ids) => onSelect(ids, 'add')} />
