@@ -33,6 +33,10 @@ export class TimestampReader {
   private readonly hourStarts: Int32Array;
   private readonly hourEnds: Int32Array;
   private hourEpoch = NaN;
+  /** For one column: the cached minute's field length, and where and how long its seconds are. */
+  private fastLength = 0;
+  private fastSecondsAt = 0;
+  private fastSecondsLength = 0;
 
   constructor(
     layout: TimestampLayout,
@@ -57,6 +61,36 @@ export class TimestampReader {
   read(text: string, bounds: FieldBounds): number {
     const cols = this.columns;
     const n = cols.length;
+    // The common case first: one column, written like the cached minute's (same length, seconds in
+    // the same place). Then only the text around the seconds is compared, and the seconds read.
+    if (n === 1 && text === this.keyText && this.fastLength > 0) {
+      const a = bounds.starts[cols[0]];
+      const b = bounds.ends[cols[0]];
+      if (b - a === this.fastLength) {
+        const s0 = a + this.fastSecondsAt;
+        const ka = this.minuteStarts[0];
+        const se = s0 + this.fastSecondsLength;
+        if (sameSpan(text, a, s0, ka, ka + this.fastSecondsAt) && sameSpan(text, se, b, this.minuteStarts[1], this.minuteEnds[1])) {
+          const s1 = text.charCodeAt(s0) - 48;
+          const s2 = text.charCodeAt(s0 + 1) - 48;
+          if (s1 >= 0 && s1 <= 5 && s2 >= 0 && s2 <= 9) {
+            let fraction = 0;
+            if (se - s0 > 2) {
+              const mark = text.charCodeAt(s0 + 2);
+              let digits = 0;
+              let ok = mark === 46 || mark === 44;
+              for (let k = s0 + 3; k < se && ok; k++) {
+                const c = text.charCodeAt(k) - 48;
+                if (c < 0 || c > 9) ok = false;
+                else digits = digits * 10 + c;
+              }
+              fraction = ok ? digits / POW10[se - s0 - 3] : -1;
+            }
+            if (fraction >= 0) return this.minuteEpoch + (s1 * 10 + s2) + fraction;
+          }
+        }
+      }
+    }
     // The column with hh:mm:ss, and where its minutes and seconds are.
     let piece = -1;
     let minutesStart = -1;
@@ -136,6 +170,14 @@ export class TimestampReader {
     this.keyText = text;
     this.keyPiece = piece;
     this.minuteEpoch = minuteEpoch;
+    if (n === 1 && secondsEnd - secondsStart <= 17) {
+      const a = bounds.starts[cols[0]];
+      this.fastLength = bounds.ends[cols[0]] - a;
+      this.fastSecondsAt = secondsStart - a;
+      this.fastSecondsLength = secondsEnd - secondsStart;
+    } else {
+      this.fastLength = 0;
+    }
     return minuteEpoch + whole + fraction;
   }
 

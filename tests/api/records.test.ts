@@ -471,6 +471,8 @@ describe('a logger file of one million readings', () => {
     expect(r.body.sampleCount).toBe(n);
     expect(r.body.testStartSeconds).toBeCloseTo(30, 6);
     expect(r.body.files[0].sha256).toBe(sha256(bytes));
+    // The import ran its checkpoint itself and gave SQLite back its automatic one.
+    expect((await ts.ds.query('PRAGMA wal_autocheckpoint'))[0].wal_autocheckpoint).toBe(1000);
     const s = await analyst.get(`/api/records/${r.body.id}/series?points=2000`);
     expect(s.status).toBe(200);
     expect(s.body.elapsedSeconds).toHaveLength(2000);

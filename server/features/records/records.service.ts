@@ -364,19 +364,21 @@ export function createRecordsService({ ds }: { ds: DataSource }) {
     if (files.barometric) {
       stored.push({ role: 'barometric', name: safeFileName(files.barometric.originalname, 'barometric-file.csv'), mediaType: safeMediaType(files.barometric.mimetype), content: files.barometric.buffer, sha256: files.barometric.sha256 });
     }
-    const id = await ds.transaction((m) =>
-      storeRecord(m, {
-        well,
-        userId,
-        source: 'logger',
-        testType: settings.testType,
-        reference: settings.reference,
-        settings: settings as unknown as Record<string, unknown>,
-        read,
-        fieldCrew: settings.fieldCrew,
-        notes: settings.notes,
-        files: stored,
-      }),
+    const id = await withDeferredCheckpoint(() =>
+      ds.transaction((m) =>
+        storeRecord(m, {
+          well,
+          userId,
+          source: 'logger',
+          testType: settings.testType,
+          reference: settings.reference,
+          settings: settings as unknown as Record<string, unknown>,
+          read,
+          fieldCrew: settings.fieldCrew,
+          notes: settings.notes,
+          files: stored,
+        }),
+      ),
     );
     warmSeries(id);
     return get(id);
@@ -508,7 +510,7 @@ export function createRecordsService({ ds }: { ds: DataSource }) {
     const t = float64Of(row.elapsedSeconds);
     const h = float64Of(row.normalizedHead);
     const n = row.count;
-    // Readings from the test start on; a log axis can show only H/H0 > 0, and LTTB keeps the shape of what is drawn.
+    // Readings from the test start on; a log axis can show only H/H0 > 0, and LTTB keeps the shape of what is drawn (log H/H0 or H/H0).
     const x = new Float64Array(n);
     const y = new Float64Array(n);
     const source = new Int32Array(n);
@@ -522,7 +524,8 @@ export function createRecordsService({ ds }: { ds: DataSource }) {
       if (hi <= 0) belowStatic++;
       if (log && !(hi > 0)) continue;
       x[m] = ti;
-      y[m] = log ? Math.log10(hi) : hi;
+      // Natural log: LTTB's choice of points does not depend on the base (it only scales the axis), and ln is quicker.
+      y[m] = log ? Math.log(hi) : hi;
       source[m] = i;
       m++;
     }
@@ -547,6 +550,24 @@ export function createRecordsService({ ds }: { ds: DataSource }) {
     const result = await records.delete({ id: recordId });
     if (!result.affected) throw notFound('The record');
     for (const key of [...seriesCache.keys()]) if (key.startsWith(`${recordId}|`)) seriesCache.delete(key);
+  }
+
+  /**
+   * A logger file and its series are tens of megabytes: with SQLite's automatic checkpoint the
+   * commit would also copy them from the write-ahead log into the database file before answering.
+   * The import turns it off for its own transaction and runs the checkpoint once the answer has
+   * gone (SQLite's advice for writers that should not wait on checkpoints: checkpoint separately).
+   */
+  async function withDeferredCheckpoint<T>(write: () => Promise<T>): Promise<T> {
+    const rows: { wal_autocheckpoint: number }[] = await ds.query('PRAGMA wal_autocheckpoint');
+    const pages = rows[0]?.wal_autocheckpoint ?? 1000;
+    await ds.query('PRAGMA wal_autocheckpoint = 0');
+    try {
+      return await write();
+    } finally {
+      await ds.query(`PRAGMA wal_autocheckpoint = ${Number(pages) | 0}`);
+      setImmediate(() => void ds.query('PRAGMA wal_checkpoint(PASSIVE)').catch(() => undefined));
+    }
   }
 
   /** The record page asks for the default curve next: compute it after the answer has gone. */
