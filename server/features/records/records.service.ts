@@ -549,7 +549,8 @@ export function createRecordsService({ ds }: { ds: DataSource }) {
   async function remove(recordId: string): Promise<void> {
     const result = await records.delete({ id: recordId });
     if (!result.affected) throw notFound('The record');
-    for (const key of [...seriesCache.keys()]) if (key.startsWith(`${recordId}|`)) seriesCache.delete(key);
+    // Deleting the current key while iterating a Map is well defined in JavaScript.
+    for (const key of seriesCache.keys()) if (key.startsWith(`${recordId}|`)) seriesCache.delete(key);
   }
 
   /**
