@@ -27,7 +27,12 @@ export function MapOverlay({ onFitToSite, canFit, visibility, onVisibilityChange
   const [open, setOpen] = useState(false);
   const panelId = useId();
   return (
-    <div className="absolute top-2.5 left-2.5 z-10 flex max-w-[calc(100%-4rem)] flex-col items-start gap-2">
+    <div
+      className="absolute top-2.5 left-2.5 z-10 flex max-w-[calc(100%-4rem)] flex-col items-start gap-2"
+      onKeyDown={(e) => {
+        if (e.key === 'Escape' && open) setOpen(false);
+      }}
+    >
       <div className="flex flex-wrap gap-2">
         <button type="button" className={overlayButton} onClick={onFitToSite} disabled={!canFit}>
           <svg aria-hidden="true" viewBox="0 0 16 16" className="size-4" fill="none" stroke="currentColor" strokeWidth="1.6">
