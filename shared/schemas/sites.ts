@@ -59,6 +59,8 @@ export const crsSchema = z.object({
   area: z.string().nullable(),
   /** [west, south, east, north] in degrees */
   bbox: z.tuple([z.number(), z.number(), z.number(), z.number()]).nullable(),
+  /** The definition proj4 uses, so a map can project without shipping the EPSG registry. */
+  proj4: z.string(),
 });
 export type Crs = z.infer<typeof crsSchema>;
 

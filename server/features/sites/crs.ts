@@ -14,15 +14,15 @@ interface EpsgEntry {
   area: string | null;
 }
 
-const cache = new Map<number, (Crs & { proj4: string }) | null>();
+const cache = new Map<number, Crs | null>();
 
 /**
  * Look one EPSG code up in epsg-index (one small JSON file per code; the full index is 40 MB) and
  * check that proj4 can build a projection from it. Null when the code is unknown or not a CRS.
  */
-export function lookupCrs(code: number): (Crs & { proj4: string }) | null {
+export function lookupCrs(code: number): Crs | null {
   if (cache.has(code)) return cache.get(code)!;
-  let found: (Crs & { proj4: string }) | null = null;
+  let found: Crs | null = null;
   try {
     const e = require(`epsg-index/s/${code}.json`) as EpsgEntry;
     if (e.kind.startsWith('CRS-') && e.proj4) {

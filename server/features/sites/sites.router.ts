@@ -20,8 +20,7 @@ export function sitesRoutes(ctx: AppContext): RouteDef[] {
       handler: (req) => {
         const crs = lookupCrs(Number(req.params.code));
         if (!crs) throw notFound(`EPSG code ${req.params.code}`);
-        const { proj4: _p, ...rest } = crs;
-        return rest;
+        return crs;
       },
     },
     {

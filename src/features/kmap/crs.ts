@@ -1,6 +1,8 @@
 import proj4 from 'proj4';
+import { crsSchema } from '@shared/schemas/sites';
+import { api, isApiError } from '@/lib/api-client';
 
-/* proj4 definitions come from epsg-index, one code at a time (epsg-definitions.ts). */
+/* proj4 definitions come from the server's CRS look-up (epsg-index there, one code at a time). */
 
 export const WGS84 = 'EPSG:4326';
 
@@ -9,13 +11,14 @@ export async function loadCrs(code: number): Promise<string | null> {
   const name = `EPSG:${code}`;
   if (code === 4326) return WGS84;
   if (proj4.defs(name)) return name;
-  const { definitions, PREFIX } = await import('./epsg-definitions');
-  const load = definitions[`${PREFIX}${code}.json`];
-  if (!load) return null;
-  const def = await load();
-  if (!def) return null;
-  proj4.defs(name, def);
-  return name;
+  try {
+    const crs = await api.get(`/api/crs/${code}`, crsSchema);
+    proj4.defs(name, crs.proj4);
+    return name;
+  } catch (e) {
+    if (isApiError(e) && e.status === 404) return null;
+    throw e;
+  }
 }
 
 /** Longitude/latitude to the site's x/y (easting, northing in its unit). */
