@@ -282,7 +282,8 @@ describe('the K map in the browser', () => {
     await legend.locator(`button[data-bin="${bin}"]`).hover();
     await expect.poll(() => legend.getByText(/ringed on the map/).isVisible()).toBe(true);
     await mapIdle(page);
-    expect(await orange()).toBeGreaterThan(30);
+    // The ring is drawn on the next frame after the hover, which may come after the idle mark.
+    await expect.poll(orange, { timeout: 15_000 }).toBeGreaterThan(30);
     await e2e.shot(page, 'kmap-bin-hover-1280');
 
     // Shift-drag over the whole map selects every drawn well; their bars are marked.
