@@ -146,6 +146,24 @@ function toStoredResult(r: FitResult, reduced: ReducedRecord, slugVolumeM3: numb
   };
 }
 
+/** The lifecycle fields of a fit that starts as a Draft: a new fit, or a new revision of a Checked one. */
+function newDraft(result: StoredFitResult, flags: unknown[], preparedById: string, now: Date) {
+  return {
+    status: 'draft' as const,
+    supersededAt: null,
+    result,
+    flags,
+    kMetersPerSecond: result.kMetersPerSecond,
+    preparedById,
+    checkedById: null,
+    checkComment: null,
+    submittedAt: null,
+    checkedAt: null,
+    createdAt: now,
+    updatedAt: now,
+  };
+}
+
 /** Field → { from, to } for what a change touched, for the audit trail. */
 function diff(before: Record<string, unknown>, after: Record<string, unknown>): Record<string, { from: unknown; to: unknown }> {
   const out: Record<string, { from: unknown; to: unknown }> = {};
@@ -257,24 +275,13 @@ export function createFitsService({ ds, config, mailer }: AppContext) {
         recordId,
         chainId: '',
         revision: 1,
-        status: 'draft',
-        supersededAt: null,
         method: body.method,
         line: body.line,
         windowInput: body.window ?? null,
         geometry,
         options: body.options,
         note: body.note,
-        result,
-        flags,
-        kMetersPerSecond: result.kMetersPerSecond,
-        preparedById: actor.user.id,
-        checkedById: null,
-        checkComment: null,
-        submittedAt: null,
-        checkedAt: null,
-        createdAt: now,
-        updatedAt: now,
+        ...newDraft(result, flags, actor.user.id, now),
       });
       await repo.save(f);
       f.chainId = f.id;
@@ -326,18 +333,7 @@ export function createFitsService({ ds, config, mailer }: AppContext) {
           id: undefined,
           ...next,
           revision: (latest?.revision ?? fit.revision) + 1,
-          status: 'draft',
-          supersededAt: null,
-          result,
-          flags,
-          kMetersPerSecond: result.kMetersPerSecond,
-          preparedById: actor.user.id,
-          checkedById: null,
-          checkComment: null,
-          submittedAt: null,
-          checkedAt: null,
-          createdAt: now,
-          updatedAt: now,
+          ...newDraft(result, flags, actor.user.id, now),
         });
         await repo.save(rev);
         await event(m, rev.id, 'revision-started', actor.user.id, { fromFitId: fit.id, fromRevision: fit.revision, changes });

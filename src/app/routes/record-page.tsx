@@ -4,6 +4,7 @@ import { Link, useNavigate, useParams } from 'react-router-dom';
 import { CAUTIONS } from '@shared/cautions';
 import type { RecordDto } from '@shared/schemas/records';
 import { Alert } from '@/components/ui/alert';
+import { NotFoundPanel } from '@/components/ui/not-found-panel';
 import { ButtonLink } from '@/components/ui/button';
 import { Card, CardBody, CardHeader } from '@/components/ui/card';
 import { ConfirmButton } from '@/components/ui/confirm-button';
@@ -36,18 +37,7 @@ export function RecordPageRoute() {
 }
 
 function RecordNotFound({ siteId }: { siteId: string }) {
-  useDocumentTitle('Record not found');
-  return (
-    <div className="space-y-4">
-      <h1 className="text-2xl font-semibold tracking-tight text-slate-900">Record not found</h1>
-      <Alert tone="error">This record does not exist, or you are not a member of its site.</Alert>
-      <p className="text-sm">
-        <Link to={`/sites/${siteId}/wells`} className="text-accent-700 hover:underline">
-          Go to the site's wells
-        </Link>
-      </p>
-    </div>
-  );
+  return <NotFoundPanel title="Record not found" message="This record does not exist, or you are not a member of its site." siteId={siteId} />;
 }
 
 function Item({ term, children }: { term: string; children: ReactNode }) {

@@ -1,9 +1,9 @@
 import { useState, type ComponentType, type ReactNode } from 'react';
 import { useMutation, useQueryClient, useSuspenseQuery } from '@tanstack/react-query';
-import { Link, useNavigate, useParams } from 'react-router-dom';
+import { useNavigate, useParams } from 'react-router-dom';
 import type { Site } from '@shared/schemas/sites';
 import type { Well, WellInputParsed } from '@shared/schemas/wells';
-import { Alert } from '@/components/ui/alert';
+import { NotFoundPanel } from '@/components/ui/not-found-panel';
 import { Button } from '@/components/ui/button';
 import { Card, CardBody, CardHeader } from '@/components/ui/card';
 import { ConfirmButton } from '@/components/ui/confirm-button';
@@ -66,18 +66,7 @@ export function WellPageRoute() {
 }
 
 function WellNotFound({ siteId }: { siteId: string }) {
-  useDocumentTitle('Well not found');
-  return (
-    <div className="space-y-4">
-      <h1 className="text-2xl font-semibold tracking-tight text-slate-900">Well not found</h1>
-      <Alert tone="error">This well does not exist, or you are not a member of its site.</Alert>
-      <p className="text-sm">
-        <Link to={`/sites/${siteId}/wells`} className="text-accent-700 hover:underline">
-          Go to the site's wells
-        </Link>
-      </p>
-    </div>
-  );
+  return <NotFoundPanel title="Well not found" message="This well does not exist, or you are not a member of its site." siteId={siteId} />;
 }
 
 function wellErrorRenderer({ error, reset, siteId }: { error: unknown; reset: () => void; siteId: string }): ReactNode {
