@@ -12,7 +12,7 @@ export function mapRoutes(ctx: AppContext): RouteDef[] {
       params: z.object({ siteId: z.string().uuid('Site id must be a UUID') }),
       responses: { 304: { description: 'Unchanged since the ETag sent in If-None-Match' }, 200: { description: 'GeoJSON FeatureCollection (WGS84)', schema: mapWellsSchema, contentType: 'application/geo+json' } },
       handler: async (req, res) => {
-        const layer = svc.wellsLayer(req.siteAccess!.siteId);
+        const layer = await svc.wellsLayer(req.siteAccess!.siteId);
         res.setHeader('ETag', layer.etag);
         res.setHeader('Cache-Control', 'private, no-cache');
         if (req.get('if-none-match') === layer.etag) return void res.status(304).end();

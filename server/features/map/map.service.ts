@@ -1,5 +1,6 @@
 import type Database from 'better-sqlite3';
 import type { AppContext } from '../../context';
+import { exclusive } from '../../db/serialize';
 
 /*
  * The wells layer is read for thousands of wells at a time, so SQLite writes the GeoJSON itself
@@ -51,7 +52,12 @@ export function createMapService({ ds }: AppContext) {
   const cache = new Map<string, WellsLayer & { version: number }>();
 
   /** The site's wells as GeoJSON (WGS84) with Well K, count and spread; rebuilt only after a change. */
-  function wellsLayer(siteId: string): WellsLayer {
+  async function wellsLayer(siteId: string): Promise<WellsLayer> {
+    // The handle is read directly (one SQL statement builds the GeoJSON): take the connection's turn
+    // so that another request's open transaction is never read half done.
+    return exclusive(ds, () => build(siteId));
+  }
+  function build(siteId: string): WellsLayer {
     const version = Number(versionStmt.get(siteId) ?? 0);
     const hit = cache.get(siteId);
     if (hit && hit.version === version) return hit;
