@@ -11,6 +11,7 @@ import type { AppContext } from './context';
 import { requireCsrf } from './auth/csrf';
 import { createPassport } from './auth/passport';
 import { SqliteSessionStore } from './auth/session-store';
+import { crashNetMiddleware } from './lib/crash-net';
 import { errorMiddleware } from './lib/error-middleware';
 import { AppError } from './lib/errors';
 import { buildOpenApi } from './lib/openapi';
@@ -48,6 +49,7 @@ export function createApp({ config, ds, mailer, log = (m, e) => console.error(m,
   const ctx: AppContext = { config, ds, mailer };
   const app = express();
   app.disable('x-powered-by');
+  app.use(crashNetMiddleware);
   if (config.TRUST_PROXY) app.set('trust proxy', 1);
 
   // Tiles, glyphs and styles are public, hot and cookie-free: served first, ahead of helmet (they set

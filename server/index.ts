@@ -6,8 +6,10 @@ import { openDatabase } from './db/data-source';
 import { seedDemoIfEmpty } from './db/seed/demo';
 import { startFakeSmtp, type FakeSmtp } from './features/mail/fake-smtp';
 import { createMailer } from './features/mail/mailer';
+import { installCrashNet } from './lib/crash-net';
 
 async function main() {
+  installCrashNet((msg, e) => console.error(`Kfield: ${msg}:`, e));
   const config = loadConfig();
   const ds = await openDatabase(config.DATABASE_PATH);
   if (config.DEMO_DATA) {
