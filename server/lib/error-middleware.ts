@@ -1,10 +1,43 @@
 import type { ErrorRequestHandler } from 'express';
-import { AppError } from './errors';
+import { QueryFailedError } from 'typeorm';
+import { AppError, conflict } from './errors';
+
+/** The columns of a unique constraint SQLite refused, e.g. ['users.email'], or null for any other error. */
+export function uniqueViolation(e: unknown): string[] | null {
+  if (!(e instanceof QueryFailedError)) return null;
+  const driver = (e as QueryFailedError & { driverError?: { code?: string; message?: string } }).driverError;
+  if (driver?.code !== 'SQLITE_CONSTRAINT_UNIQUE' && driver?.code !== 'SQLITE_CONSTRAINT_PRIMARYKEY') return null;
+  const m = /constraint failed: (.+)$/.exec(driver.message ?? '');
+  return m ? m[1].split(',').map((c) => c.trim()) : [];
+}
+
+// What a person can act on, for the constraints that a request's own input can hit.
+const UNIQUE_MESSAGES: Record<string, { message: string; field: string; fieldMessage: string }> = {
+  'users.email': { message: 'An account with this e-mail already exists', field: 'email', fieldMessage: 'An account with this e-mail already exists' },
+  'wells.siteId,wells.name': { message: 'A well with this name already exists at this site', field: 'name', fieldMessage: 'Another well at this site has this name' },
+};
+
+/**
+ * A unique constraint met under a race (two requests both checked, both wrote) is the client's
+ * conflict, not a server fault.
+ */
+export function uniqueViolationError(columns: string[]): AppError {
+  const known = UNIQUE_MESSAGES[columns.join(',')];
+  if (known) return conflict('CONFLICT', known.message, { [known.field]: known.fieldMessage });
+  const field = columns.at(-1)?.split('.').at(-1);
+  return conflict(
+    'CONFLICT',
+    field ? `Another record already has this ${field}` : 'The change conflicts with an existing record',
+    field ? { [field]: 'Already taken' } : undefined,
+  );
+}
 
 /** The one place errors become answers: { error: { code, message, fields? } }. */
 export function errorMiddleware(log: (msg: string, e: unknown) => void): ErrorRequestHandler {
   return (e, _req, res, _next) => {
     if (res.headersSent) return;
+    const unique = uniqueViolation(e);
+    if (unique) e = uniqueViolationError(unique);
     if (e instanceof AppError) {
       for (const [k, v] of Object.entries(e.headers ?? {})) res.setHeader(k, v);
       res.status(e.status).json({ error: { code: e.code, message: e.message, ...(e.fields ? { fields: e.fields } : {}) } });

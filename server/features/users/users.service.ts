@@ -2,6 +2,7 @@ import type { z } from 'zod';
 import type { AdminUser, createUserBodySchema, UserPatch } from '@shared/schemas/users';
 import type { AppContext } from '../../context';
 import { conflict, notFound } from '../../lib/errors';
+import { uniqueViolation } from '../../lib/error-middleware';
 import { hashPassword } from '../../auth/password';
 import { newToken } from '../../auth/tokens';
 import type { SqliteSessionStore } from '../../auth/session-store';
@@ -36,16 +37,21 @@ export function createUsersService({ ds, config }: AppContext, store: SqliteSess
 
   /** Without a password the account gets a random one and its owner an e-mailed reset link. */
   async function create(body: z.output<typeof createUserBodySchema>): Promise<AdminUser> {
-    if (await users.exists({ where: { email: body.email } })) {
-      throw conflict('EMAIL_TAKEN', `An account for ${body.email} already exists`, { email: 'An account with this e-mail already exists' });
-    }
+    const taken = () => conflict('EMAIL_TAKEN', `An account for ${body.email} already exists`, { email: 'An account with this e-mail already exists' });
+    if (await users.exists({ where: { email: body.email } })) throw taken();
     const passwordHash = await hashPassword(body.password ?? newToken(), config.BCRYPT_COST);
-    const id = await ds.transaction(async (m) => {
-      const u = await m.getRepository(User).save(
-        m.getRepository(User).create({ email: body.email, name: body.name, isAdmin: body.isAdmin, disabled: false, passwordHash }),
-      );
-      return u.id;
-    });
+    const id = await ds
+      .transaction(async (m) => {
+        const u = await m.getRepository(User).save(
+          m.getRepository(User).create({ email: body.email, name: body.name, isAdmin: body.isAdmin, disabled: false, passwordHash }),
+        );
+        return u.id;
+      })
+      .catch((e: unknown) => {
+        // Another request created the same address while this one was hashing the password.
+        if (uniqueViolation(e)?.includes('users.email')) throw taken();
+        throw e;
+      });
     if (!body.password) await sendReset(body.email);
     return get(id);
   }
