@@ -21,6 +21,7 @@ import { createAuthService } from './features/auth/auth.service';
 import { basemapApiRoutes, basemapTileRoutes } from './features/basemaps/basemaps.router';
 import { createBasemapsService } from './features/basemaps/basemaps.service';
 import type { Mailer } from './features/mail/mailer';
+import { createMailWorker, type MailWorker, type MailWorkerOptions } from './features/mail/outbox';
 import { fitsRoutes } from './features/fits/fits.router';
 import { mapRoutes } from './features/map/map.router';
 import { membersRoutes } from './features/members/members.router';
@@ -35,18 +36,23 @@ export interface KfieldApp {
   app: Express;
   routes: MountedRoute[];
   store: SqliteSessionStore;
-  close(): void;
+  /** The outbox's delivery worker (tests drain it). */
+  mail: MailWorker;
+  close(): Promise<void>;
 }
 
 export interface AppDeps {
   config: Config;
   ds: DataSource;
+  /** The relay the outbox worker delivers to. */
   mailer: Mailer;
+  mailOptions?: MailWorkerOptions;
   log?: (msg: string, e?: unknown) => void;
 }
 
-export function createApp({ config, ds, mailer, log = (m, e) => console.error(m, e) }: AppDeps): KfieldApp {
-  const ctx: AppContext = { config, ds, mailer };
+export function createApp({ config, ds, mailer, mailOptions, log = (m, e) => console.error(m, e) }: AppDeps): KfieldApp {
+  const mail = createMailWorker(ds, mailer, { log, ...mailOptions });
+  const ctx: AppContext = { config, ds, outbox: mail };
   const app = express();
   app.disable('x-powered-by');
   app.use(crashNetMiddleware);
@@ -138,7 +144,7 @@ export function createApp({ config, ds, mailer, log = (m, e) => console.error(m,
     ...fitsRoutes(ctx),
     ...mapRoutes(ctx),
     ...basemapApiRoutes(ctx, basemaps),
-    ...adminRoutes(ctx, store, auth.sendReset),
+    ...adminRoutes(ctx, store, auth.sendReset, mail),
   ];
   const routes: MountedRoute[] = [...tileMounted];
   const api = express.Router();
@@ -159,10 +165,11 @@ export function createApp({ config, ds, mailer, log = (m, e) => console.error(m,
 
   app.use(errorMiddleware(log));
   return {
-    app, routes, store,
-    close: () => {
+    app, routes, store, mail,
+    close: async () => {
       store.close();
       basemaps.close();
+      await mail.stop();
     },
   };
 }

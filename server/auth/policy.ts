@@ -123,6 +123,7 @@ export const policyTable: Record<string, PolicyRule> = {
   'PATCH /api/admin/users/:userId': ADMIN,
   'POST /api/admin/users/:userId/reset': ADMIN,
   'GET /api/admin/outbox': ADMIN,
+  'POST /api/admin/outbox/:messageId/retry': ADMIN,
   'DELETE /api/admin/outbox': ADMIN,
 
   // Basemaps: tiles, glyphs and styles are public so that viewer-link pages can draw them.

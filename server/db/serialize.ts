@@ -126,3 +126,6 @@ export async function exclusive<T>(ds: DataSource, fn: () => T | Promise<T>): Pr
 
 /** How many statements or transactions wait for the connection now (for health figures and tests). */
 export const connectionQueueLength = (ds: DataSource): number => gates.get(ds)?.waiting ?? 0;
+
+/** Run `fn` (and whatever it starts) as a stranger to the caller's transaction: it waits its turn. */
+export const outsideTransaction = <T>(fn: () => T): T => ownerToken.exit(fn);

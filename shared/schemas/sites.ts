@@ -87,7 +87,7 @@ export const siteListSchema = z.object({ sites: z.array(siteSchema) });
 export const memberSchema = z.object({
   userId: z.string(),
   name: z.string(),
-  email: z.string(),
+  email: z.string().nullable().describe('Left out (null) for a Viewer'),
   role: siteRoleSchema,
   disabled: z.boolean(),
   since: isoDateTime,

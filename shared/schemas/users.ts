@@ -30,14 +30,27 @@ export const userPatchSchema = z.object({
 });
 export type UserPatch = z.infer<typeof userPatchSchema>;
 
+export const MAIL_KINDS = ['invitation', 'password-reset', 'fit-submitted', 'fit-checked', 'fit-sent-back'] as const;
+export type MailKind = (typeof MAIL_KINDS)[number];
+export const MAIL_STATUSES = ['pending', 'sending', 'sent', 'failed'] as const;
+export type MailStatus = (typeof MAIL_STATUSES)[number];
+
 export const outboxMessageSchema = z.object({
   id: z.string(),
-  from: z.string(),
+  kind: z.enum(MAIL_KINDS),
   to: z.array(z.string()),
   subject: z.string(),
   text: z.string(),
   html: z.string().nullable(),
-  receivedAt: isoDateTime,
+  status: z.enum(MAIL_STATUSES),
+  attempts: z.number().int(),
+  lastError: z.string().nullable(),
+  createdAt: isoDateTime,
+  nextAttemptAt: isoDateTime.nullable().describe('When the next attempt is due (pending messages only)'),
+  sentAt: isoDateTime.nullable(),
 });
 export type OutboxMessage = z.infer<typeof outboxMessageSchema>;
-export const outboxListSchema = z.object({ messages: z.array(outboxMessageSchema) });
+export const outboxListSchema = z.object({
+  messages: z.array(outboxMessageSchema),
+  counts: z.object({ pending: z.number().int(), sending: z.number().int(), sent: z.number().int(), failed: z.number().int() }),
+});

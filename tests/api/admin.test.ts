@@ -62,13 +62,18 @@ describe('admin: users', () => {
 });
 
 describe('admin: outbox', () => {
-  it('shows what the local mail service received, newest first, and empties it', async () => {
+  it('shows what Kfield queued and sent, newest first, and clears the sent messages', async () => {
     const admin = await ts.as(demoEmail('Admin'));
     const lead = await ts.as(demoEmail('Lead'));
     await lead.post(`/api/sites/${ts.demoSiteId}/invitations`, { email: 'outbox.check@demo.kfield.example', role: 'Viewer' }).expect(201);
     const r = await admin.get('/api/admin/outbox').expect(200);
     expect(r.body.messages[0]).toMatchObject({ to: ['outbox.check@demo.kfield.example'], subject: expect.stringMatching(/invited/) });
     expect(r.body.messages[0].text).toMatch(/\/invitations\//);
+    await ts.kfield.mail.drain();
+    const sent = await admin.get('/api/admin/outbox').expect(200);
+    expect(sent.body.messages[0]).toMatchObject({ status: 'sent', attempts: 1, sentAt: expect.any(String), nextAttemptAt: null });
+    expect(sent.body.counts.sent).toBe(sent.body.messages.length);
+    expect((await ts.delivered('outbox.check@demo.kfield.example'))).toHaveLength(1);
     await admin.delete('/api/admin/outbox').expect(204);
     expect((await admin.get('/api/admin/outbox')).body.messages).toEqual([]);
   });

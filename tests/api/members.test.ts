@@ -95,17 +95,22 @@ describe('invitations', () => {
     expect(r.body.invitations).toEqual([]);
   });
 
-  it('saves no invitation when the mail service is down (503)', async () => {
+  it('keeps the invitation and queues its message when the mail relay is down', async () => {
     const deadMailer = createMailer({ host: '127.0.0.1', port: 1, secure: false, from: 'x@localhost' });
-    const broken = createApp({ config: ts.config, ds: ts.ds, mailer: deadMailer, log: () => undefined });
+    const broken = createApp({ config: ts.config, ds: ts.ds, mailer: deadMailer, mailOptions: { retryBaseMs: 60_000 }, log: () => undefined });
     const agent = request.agent(broken.app);
     let csrf = (await agent.get('/api/auth/csrf')).body.csrfToken;
     csrf = (await agent.post('/api/auth/login').set('x-csrf-token', csrf).send({ email: demoEmail('Lead'), password: DEMO_PASSWORD })).body.csrfToken;
-    const r = await agent.post(`/api/sites/${ts.demoSiteId}/invitations`).set('x-csrf-token', csrf).send({ email: 'lost@demo.kfield.example', role: 'Viewer' });
-    expect(r.status).toBe(503);
-    expect(r.body.error.code).toBe('MAIL_UNAVAILABLE');
-    expect(await ts.ds.getRepository(Invitation).countBy({ email: 'lost@demo.kfield.example' })).toBe(0);
-    broken.close();
+    const r = await agent.post(`/api/sites/${ts.demoSiteId}/invitations`).set('x-csrf-token', csrf).send({ email: 'kept@demo.kfield.example', role: 'Viewer' });
+    // Confirmed means stored: the relay is not part of the request any more.
+    expect(r.status).toBe(201);
+    expect(await ts.ds.getRepository(Invitation).countBy({ email: 'kept@demo.kfield.example' })).toBe(1);
+    // One attempt fails at once; the next is not due for a minute.
+    await broken.mail.drain(3000);
+    const [queued] = await ts.outbox('kept@demo.kfield.example');
+    expect(queued).toMatchObject({ kind: 'invitation', status: 'pending', attempts: 1, lastError: expect.stringMatching(/ECONNREFUSED/) });
+    expect(queued.nextAttemptAt.getTime()).toBeGreaterThan(Date.now() + 30_000);
+    await broken.close();
   });
 });
 

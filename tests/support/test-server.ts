@@ -12,6 +12,8 @@ import { openDatabase } from '../../server/db/data-source';
 import { DEMO_PASSWORD, DEMO_USERS, seedDemoIfEmpty } from '../../server/db/seed/demo';
 import { startFakeSmtp, type FakeSmtp } from '../../server/features/mail/fake-smtp';
 import { createMailer, type Mailer } from '../../server/features/mail/mailer';
+import { LocalMail } from '../../server/features/mail/local-mail.entity';
+import type { MailWorkerOptions } from '../../server/features/mail/outbox';
 import { OutboxMessage } from '../../server/features/mail/outbox-message.entity';
 import { Site } from '../../server/features/sites/site.entity';
 
@@ -67,19 +69,28 @@ export interface TestServer {
   demoSiteId: string;
   client(): ApiClient;
   as(email: string, password?: string): Promise<ApiClient>;
+  /** What Kfield queued (newest first), delivered or not. */
   outbox(to?: string): Promise<OutboxMessage[]>;
+  /** What the local mail service received (newest first), after draining the outbox. */
+  delivered(to?: string): Promise<LocalMail[]>;
   close(): Promise<void>;
 }
 
 /** The real app on port 0 against a fresh, migrated SQLite file with the demo scenario. */
-export async function startTestServer(env: Record<string, string> = {}, existingDbPath?: string): Promise<TestServer> {
+export interface TestServerOptions {
+  /** The relay the outbox delivers to (default: the local fake SMTP service started here). */
+  mailer?: Mailer;
+  mailOptions?: MailWorkerOptions;
+}
+
+export async function startTestServer(env: Record<string, string> = {}, existingDbPath?: string, opts: TestServerOptions = {}): Promise<TestServer> {
   const dbPath = existingDbPath ?? path.join(fs.mkdtempSync(path.join(os.tmpdir(), 'kfield-test-')), 'kfield.sqlite');
   const config = loadConfig({ NODE_ENV: 'test', DATABASE_PATH: dbPath, BCRYPT_COST: '10', CLIENT_DIST: 'dist/client', ...env });
   const ds = await openDatabase(dbPath);
   await seedDemoIfEmpty(ds, config);
   const smtp = await startFakeSmtp(ds, 0);
-  const mailer = createMailer({ host: '127.0.0.1', port: smtp.port, secure: false, from: config.MAIL_FROM });
-  const kfield = createApp({ config, ds, mailer, log: () => undefined });
+  const mailer = opts.mailer ?? createMailer({ host: '127.0.0.1', port: smtp.port, secure: false, from: config.MAIL_FROM });
+  const kfield = createApp({ config, ds, mailer, mailOptions: opts.mailOptions, log: () => undefined });
   const server = http.createServer(kfield.app);
   await new Promise<void>((r) => server.listen(Number(env.PORT ?? 0), '127.0.0.1', () => r()));
   const baseUrl = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
@@ -89,12 +100,17 @@ export async function startTestServer(env: Record<string, string> = {}, existing
     client: () => new ApiClient(request.agent(server)),
     as: async (email, password) => new ApiClient(request.agent(server)).signIn(email, password),
     outbox: async (to) => {
-      const all = await ds.getRepository(OutboxMessage).find({ order: { receivedAt: 'DESC' } });
+      const all = await ds.getRepository(OutboxMessage).find({ order: { createdAt: 'DESC' } });
+      return to ? all.filter((m) => m.toAddresses.includes(to)) : all;
+    },
+    delivered: async (to) => {
+      await kfield.mail.drain();
+      const all = await ds.getRepository(LocalMail).find({ order: { receivedAt: 'DESC' } });
       return to ? all.filter((m) => m.toAddresses.includes(to)) : all;
     },
     close: async () => {
       await new Promise<void>((r) => server.close(() => r()));
-      kfield.close();
+      await kfield.close();
       mailer.close();
       await smtp.close();
       await ds.destroy();

@@ -1,7 +1,7 @@
 import type { DataSource } from 'typeorm';
 import type { Config } from '../../config';
 import { createFitsService, type Actor } from '../../features/fits/fits.service';
-import type { Mailer } from '../../features/mail/mailer';
+import { discardingOutbox } from '../../features/mail/outbox';
 import { RecordEntity } from '../../features/records/record.entity';
 import { Site } from '../../features/sites/site.entity';
 import { User } from '../../features/users/user.entity';
@@ -10,7 +10,6 @@ import { AppError } from '../../lib/errors';
 import { DEMO_USERS } from './demo';
 
 /** The demo's fits are invented like the rest: made by the engine from the invented records. */
-const silentMailer: Mailer = { send: async () => undefined, close: () => undefined };
 
 type Plan = 'checked' | 'checked-by-lead' | 'awaiting-check' | 'sent-back' | 'draft';
 // Most wells carry a Checked fit so the map has colour; a few fits stand in every other state.
@@ -26,7 +25,7 @@ export async function seedDemoFits(ds: DataSource, config: Config): Promise<numb
   };
   const [analyst, checker, lead] = await Promise.all([userByRole('Analyst'), userByRole('Checker'), userByRole('Lead')]);
   const as = (u: User, role: Actor['role']): Actor => ({ user: { id: u.id, email: u.email, name: u.name, isAdmin: false, disabled: false }, role });
-  const svc = createFitsService({ ds, config, mailer: silentMailer });
+  const svc = createFitsService({ ds, config, outbox: discardingOutbox });
 
   const records = await ds.getRepository(RecordEntity).find({ where: { siteId: site.id }, order: { createdAt: 'ASC' } });
   const wells = new Map((await ds.getRepository(Well).find({ where: { siteId: site.id } })).map((w) => [w.id, w]));

@@ -3,32 +3,40 @@ import type { AppContext } from '../../context';
 import { badRequest } from '../../lib/errors';
 import { hashPassword } from '../../auth/password';
 import { hashToken, newToken } from '../../auth/tokens';
+import { admitMailRequest, type MailRequester } from '../mail/mail-limits';
 import { passwordResetMail } from '../mail/templates';
 import { User } from '../users/user.entity';
 import { PasswordReset } from './password-reset.entity';
 import type { SqliteSessionStore } from '../../auth/session-store';
 
 export function createAuthService(ctx: AppContext, store: SqliteSessionStore) {
-  const { ds, config, mailer } = ctx;
+  const { ds, config, outbox } = ctx;
 
-  /** E-mail a single-use reset link; silent when the address has no account (no enumeration). */
-  async function sendReset(email: string): Promise<void> {
-    const user = await ds.getRepository(User).findOne({ where: { email } });
-    if (!user || user.disabled) return;
+  /**
+   * E-mail a single-use reset link; silent when the address has no account (no enumeration). Every
+   * request does the same work in one transaction (look-up, the limits, one request row), and the
+   * message goes through the outbox, so the answer takes as long whether or not the account exists.
+   */
+  async function sendReset(email: string, who: MailRequester = {}): Promise<void> {
+    const target = email.trim().toLowerCase();
     const token = newToken();
     await ds.transaction(async (m) => {
-      // A new link replaces any earlier unused one.
-      await m.getRepository(PasswordReset).update({ userId: user.id, usedAt: IsNull() }, { usedAt: new Date() });
-      await m.getRepository(PasswordReset).save(
-        m.getRepository(PasswordReset).create({
+      const user = await m.getRepository(User).findOne({ where: { email: target } });
+      const admitted = await admitMailRequest(m, 'password-reset', target, who);
+      const mail = Boolean(user && !user.disabled && admitted.mayMail);
+      if (user && mail) {
+        // A new link replaces any earlier unused one.
+        await m.getRepository(PasswordReset).update({ userId: user.id, usedAt: IsNull() }, { usedAt: new Date() });
+        await m.getRepository(PasswordReset).insert({
           userId: user.id,
           tokenHash: hashToken(token),
           expiresAt: new Date(Date.now() + config.RESET_TTL_HOURS * 3600_000),
           usedAt: null,
-        }),
-      );
-      const link = `${config.PUBLIC_URL.replace(/\/$/, '')}/reset-password?token=${encodeURIComponent(token)}`;
-      await mailer.send({ to: user.email, ...passwordResetMail({ name: user.name, link, expiresHours: config.RESET_TTL_HOURS }) });
+        });
+        const link = `${config.PUBLIC_URL.replace(/\/$/, '')}/reset-password?token=${encodeURIComponent(token)}`;
+        await outbox.queue(m, { kind: 'password-reset', to: user.email, ...passwordResetMail({ name: user.name, link, expiresHours: config.RESET_TTL_HOURS }) });
+      }
+      await admitted.record(mail);
     });
   }
 

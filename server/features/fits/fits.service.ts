@@ -185,7 +185,7 @@ const paramsOf = (f: Pick<FitEntity, 'method' | 'line' | 'windowInput' | 'geomet
   note: f.note,
 });
 
-export function createFitsService({ ds, config, mailer }: AppContext) {
+export function createFitsService({ ds, config, outbox }: AppContext) {
   const link = (siteId: string, fitId: string) => `${config.PUBLIC_URL.replace(/\/$/, '')}/sites/${siteId}/fits/${fitId}`;
 
   async function event(m: EntityManager, fitId: string, kind: FitEvent['kind'], actorId: string | null, details: Record<string, unknown> = {}) {
@@ -373,7 +373,8 @@ export function createFitsService({ ds, config, mailer }: AppContext) {
         m.getRepository(Well).findOneOrFail({ where: { id: f.wellId } }),
       ]);
       if (checkers.length) {
-        await mailer.send({
+        await outbox.queue(m, {
+          kind: 'fit-submitted',
           to: checkers.map((u) => u.email),
           ...awaitingCheckMail({ siteName: site.name, wellName: well.name, preparer: actor.user.name, kMetersPerSecond: f.kMetersPerSecond, revision: f.revision, link: link(f.siteId, f.id) }),
         });
@@ -416,7 +417,7 @@ export function createFitsService({ ds, config, mailer }: AppContext) {
       ]);
       if (preparer && !preparer.disabled) {
         const o = { siteName: site.name, wellName: well.name, checker: actor.user.name, kMetersPerSecond: f.kMetersPerSecond, revision: f.revision, comment, link: link(f.siteId, f.id) };
-        await mailer.send({ to: preparer.email, ...(decision === 'checked' ? checkedMail(o) : sentBackMail(o)) });
+        await outbox.queue(m, { kind: decision === 'checked' ? 'fit-checked' : 'fit-sent-back', to: preparer.email, ...(decision === 'checked' ? checkedMail(o) : sentBackMail(o)) });
       }
       return f;
     });

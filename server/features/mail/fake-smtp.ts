@@ -1,7 +1,7 @@
 import { simpleParser, type AddressObject } from 'mailparser';
 import { SMTPServer } from 'smtp-server';
 import type { DataSource } from 'typeorm';
-import { OutboxMessage } from './outbox-message.entity';
+import { LocalMail } from './local-mail.entity';
 
 export interface FakeSmtp {
   port: number;
@@ -12,11 +12,12 @@ const addresses = (a: AddressObject | AddressObject[] | undefined): string[] =>
   (Array.isArray(a) ? a : a ? [a] : []).flatMap((o) => o.value.map((v) => v.address ?? '')).filter(Boolean);
 
 /**
- * A local SMTP service that accepts every message and keeps it in the outbox table, so invitations
- * and password resets work on a machine with no mail service. Listens on loopback only.
+ * A local SMTP service that accepts every message and keeps it in the local mailbox table, so
+ * invitations and password resets work on a machine with no mail service (the Admin outbox shows
+ * what Kfield sent and whether it was delivered). Listens on loopback only.
  */
 export async function startFakeSmtp(ds: DataSource, port: number, host = '127.0.0.1'): Promise<FakeSmtp> {
-  const repo = ds.getRepository(OutboxMessage);
+  const repo = ds.getRepository(LocalMail);
   const server = new SMTPServer({
     authOptional: true,
     disabledCommands: ['STARTTLS', 'AUTH'],

@@ -6,6 +6,8 @@ export interface OutgoingMail {
   subject: string;
   text: string;
   html?: string;
+  /** The outbox id, so that a receiver can tell a repeated delivery. */
+  messageId?: string;
 }
 
 export interface Mailer {
@@ -31,17 +33,16 @@ export function createMailer(s: SmtpSettings): Mailer {
     // The local fake service speaks plain SMTP on loopback.
     ignoreTLS: !s.secure && (s.host === '127.0.0.1' || s.host === 'localhost'),
     connectionTimeout: 10_000,
+    greetingTimeout: 10_000,
+    // A relay that holds a message this long is treated as a failure; the outbox retries later.
+    socketTimeout: 60_000,
   });
   return {
     async send(mail) {
       try {
         await transport.sendMail({ from: s.from, ...mail });
       } catch (e) {
-        throw new AppError(
-          'MAIL_UNAVAILABLE',
-          `The e-mail could not be sent (${(e as Error).message}); nothing was saved, try again later`,
-          503,
-        );
+        throw new AppError('MAIL_UNAVAILABLE', `The mail relay did not accept the message: ${(e as Error).message}`, 503);
       }
     },
     close: () => transport.close(),

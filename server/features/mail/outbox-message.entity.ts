@@ -1,13 +1,18 @@
-import { Column, Entity, PrimaryGeneratedColumn } from 'typeorm';
+import { Column, Entity, Index, PrimaryGeneratedColumn } from 'typeorm';
+import type { MailKind, MailStatus } from '@shared/schemas/users';
 
-/** A message received by the local fake SMTP service. */
-@Entity('outbox_messages')
+/**
+ * The transactional outbox: a message is written in the same transaction as the change it tells
+ * of, and the mail worker delivers it after the commit (decision 011). Nothing waits on the relay.
+ */
+@Entity('mail_outbox')
+@Index('IDX_mail_outbox_due', ['status', 'nextAttemptAt'])
 export class OutboxMessage {
   @PrimaryGeneratedColumn('uuid')
   id: string;
 
-  @Column('varchar', { length: 400 })
-  fromAddress: string;
+  @Column('varchar', { length: 40 })
+  kind: MailKind;
 
   @Column('simple-json')
   toAddresses: string[];
@@ -21,7 +26,22 @@ export class OutboxMessage {
   @Column('text', { nullable: true })
   html: string | null;
 
-  // Set in code with milliseconds: the column default only has whole seconds.
-  @Column('datetime', { default: () => "datetime('now')" })
-  receivedAt: Date;
+  /** pending → sending → sent; back to pending after a failed attempt; failed after the last one. */
+  @Column('varchar', { length: 10, default: 'pending' })
+  status: MailStatus;
+
+  @Column('integer', { default: 0 })
+  attempts: number;
+
+  @Column('datetime')
+  nextAttemptAt: Date;
+
+  @Column('text', { nullable: true })
+  lastError: string | null;
+
+  @Column('datetime')
+  createdAt: Date;
+
+  @Column('datetime', { nullable: true })
+  sentAt: Date | null;
 }

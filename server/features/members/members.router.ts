@@ -19,7 +19,8 @@ export function membersRoutes(ctx: AppContext): RouteDef[] {
       method: 'get', path: '/api/sites/:siteId/members', tag: 'Members', summary: 'Members of a site, and pending invitations for its Leads',
       params: z.object({ siteId }),
       responses: { 200: { description: 'Members', schema: membersResponseSchema } },
-      handler: (req) => svc.list(req.siteAccess!.siteId, canManage(req)),
+      // A Viewer (a stakeholder) sees who is on the site and in which role, not their addresses.
+      handler: (req) => svc.list(req.siteAccess!.siteId, canManage(req), req.siteAccess?.role !== 'Viewer' || !!req.user?.isAdmin),
     },
     {
       method: 'post', path: '/api/sites/:siteId/invitations', tag: 'Members', summary: 'Invite someone by e-mail with a role (Lead)',
@@ -28,9 +29,9 @@ export function membersRoutes(ctx: AppContext): RouteDef[] {
         201: { description: 'Invitation sent', schema: invitationSchema },
         400: err('Invalid e-mail or role'),
         409: err('Already a member'),
-        503: err('The mail service is unavailable; nothing saved'),
+        429: err('Too many invitations from this account or address, or to this address today'),
       },
-      handler: (req) => svc.invite(req.siteAccess!.siteId, req.user!, req.body.email, req.body.role),
+      handler: (req) => svc.invite(req.siteAccess!.siteId, req.user!, req.body.email, req.body.role, { clientAddress: req.ip ?? null }),
     },
     {
       method: 'delete', path: '/api/sites/:siteId/invitations/:invitationId', tag: 'Members', summary: 'Revoke a pending invitation (Lead)',

@@ -8,6 +8,7 @@ import { hashPassword, verifyPassword } from '../../auth/password';
 import { toSessionUser } from '../../auth/passport';
 import { hashToken, newToken } from '../../auth/tokens';
 import { newPasswordSchema, personNameSchema } from '@shared/schemas/common';
+import { admitMailRequest, type MailRequester } from '../mail/mail-limits';
 import { invitationMail } from '../mail/templates';
 import { Membership } from '../sites/membership.entity';
 import { Site } from '../sites/site.entity';
@@ -15,10 +16,10 @@ import { User } from '../users/user.entity';
 import { Invitation } from './invitation.entity';
 import { fieldErrors } from '../../lib/validate';
 
-const toMember = (m: Membership): Member => ({
+const toMember = (m: Membership, showEmail: boolean): Member => ({
   userId: m.userId,
   name: m.user.name,
-  email: m.user.email,
+  email: showEmail ? m.user.email : null,
   role: m.role,
   disabled: m.user.disabled,
   since: m.createdAt.toISOString(),
@@ -33,11 +34,11 @@ const toInvitation = (i: Invitation): InvitationDto => ({
   expiresAt: i.expiresAt.toISOString(),
 });
 
-export function createMembersService({ ds, config, mailer }: AppContext) {
+export function createMembersService({ ds, config, outbox }: AppContext) {
   const memberships = ds.getRepository(Membership);
   const invitations = ds.getRepository(Invitation);
 
-  async function list(siteId: string, canManage: boolean) {
+  async function list(siteId: string, canManage: boolean, showEmails: boolean) {
     const members = await memberships.find({ where: { siteId }, relations: { user: true }, order: { createdAt: 'ASC' } });
     const pending = canManage
       ? await invitations.find({
@@ -47,12 +48,12 @@ export function createMembersService({ ds, config, mailer }: AppContext) {
         })
       : [];
     return {
-      members: members.map(toMember),
+      members: members.map((x) => toMember(x, showEmails)),
       invitations: pending.filter((i) => i.expiresAt.getTime() > Date.now()).map(toInvitation),
     };
   }
 
-  async function invite(siteId: string, inviter: Express.User, email: string, role: SiteRole): Promise<InvitationDto> {
+  async function invite(siteId: string, inviter: Express.User, email: string, role: SiteRole, who: MailRequester = {}): Promise<InvitationDto> {
     const existing = await ds.getRepository(User).findOne({ where: { email } });
     if (existing && (await memberships.exists({ where: { siteId, userId: existing.id } }))) {
       throw conflict('ALREADY_MEMBER', `${email} is already a member of this site`, { email: 'Already a member of this site' });
@@ -61,6 +62,18 @@ export function createMembersService({ ds, config, mailer }: AppContext) {
     const token = newToken();
     return ds.transaction(async (m) => {
       const repo = m.getRepository(Invitation);
+      const admitted = await admitMailRequest(m, 'invitation', email, { ...who, requestedById: inviter.id });
+      const pending = await repo.findOne({ where: { siteId, email, usedAt: IsNull(), revokedAt: IsNull() }, relations: { invitedBy: true }, order: { createdAt: 'DESC' } });
+      if (!admitted.mayMail) {
+        // A repeat within minutes (or past the address's daily count) sends nothing new: the pending
+        // invitation stands, with the role asked for now.
+        if (pending && pending.expiresAt.getTime() > Date.now()) {
+          if (pending.role !== role) await repo.update({ id: pending.id }, { role });
+          await admitted.record(false);
+          return toInvitation({ ...pending, role } as Invitation);
+        }
+        throw new AppError('RATE_LIMITED', `${email} was sent too many invitations today; try again tomorrow`, 429, { email: 'Too many invitations to this address today' }, { 'Retry-After': '3600' });
+      }
       // A new invitation to the same address replaces the earlier pending one.
       await repo.update({ siteId, email, usedAt: IsNull(), revokedAt: IsNull() }, { revokedAt: new Date() });
       const inv = await repo.save(
@@ -76,10 +89,12 @@ export function createMembersService({ ds, config, mailer }: AppContext) {
         }),
       );
       const link = `${config.PUBLIC_URL.replace(/\/$/, '')}/invitations/${encodeURIComponent(token)}`;
-      await mailer.send({
+      await outbox.queue(m, {
+        kind: 'invitation',
         to: email,
         ...invitationMail({ siteName: site.name, role, invitedBy: inviter.name, link, expiresHours: config.INVITATION_TTL_HOURS }),
       });
+      await admitted.record(true);
       inv.invitedBy = { name: inviter.name } as User;
       return toInvitation(inv);
     });
@@ -157,7 +172,7 @@ export function createMembersService({ ds, config, mailer }: AppContext) {
     }
     m.role = role;
     await memberships.update({ siteId, userId }, { role });
-    return toMember(m);
+    return toMember(m, true);
   }
 
   async function remove(siteId: string, userId: string): Promise<void> {

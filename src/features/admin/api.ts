@@ -45,3 +45,7 @@ export function sendPasswordReset(userId: string) {
 export function clearOutbox() {
   return api.delete('/api/admin/outbox');
 }
+
+export function retryOutboxMessage(messageId: string) {
+  return api.postNoContent(`/api/admin/outbox/${seg(messageId)}/retry`);
+}

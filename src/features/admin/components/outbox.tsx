@@ -10,7 +10,8 @@ import { cn } from '@/lib/cn';
 import { describeError } from '@/lib/errors';
 import { formatDateTime } from '@/lib/format';
 import { LinkifiedText } from '@/lib/linkify';
-import { adminKeys, clearOutbox, outboxQueryOptions } from '../api';
+import { Badge } from '@/components/ui/badge';
+import { adminKeys, clearOutbox, outboxQueryOptions, retryOutboxMessage } from '../api';
 
 /** `messageHref(id)` builds the link that opens one message; the route owns the URL. */
 export function Outbox({ selectedId, messageHref, listHref }: { selectedId: string | null; messageHref: (id: string) => string; listHref: string }) {
@@ -27,7 +28,7 @@ export function Outbox({ selectedId, messageHref, listHref }: { selectedId: stri
       </div>
       {messages.length === 0 ? (
         <EmptyState title="The outbox is empty">
-          Invitations and password-reset e-mails sent by Kfield appear here.
+          Invitations, password-reset and fit e-mails appear here as soon as Kfield queues them, with their delivery.
         </EmptyState>
       ) : (
         <div className="grid gap-4 lg:grid-cols-[22rem_1fr]">
@@ -45,7 +46,10 @@ export function Outbox({ selectedId, messageHref, listHref }: { selectedId: stri
                   >
                     <span className="block truncate text-sm font-medium text-slate-900">{message.subject || '(no subject)'}</span>
                     <span className="block truncate text-xs text-slate-600">To {message.to.join(', ')}</span>
-                    <span className="block text-xs text-slate-500">{formatDateTime(message.receivedAt)}</span>
+                    <span className="mt-1 flex items-center gap-2 text-xs text-slate-500">
+                      <StatusBadge message={message} />
+                      {formatDateTime(message.createdAt)}
+                    </span>
                   </Link>
                 </li>
               ))}
@@ -80,18 +84,60 @@ function MessageView({ message, listHref }: { message: OutboxMessage; listHref: 
       />
       <CardBody className="space-y-4">
         <dl className="grid grid-cols-[auto_1fr] gap-x-4 gap-y-1 text-sm">
-          <dt className="text-slate-500">From</dt>
-          <dd className="break-all text-slate-800">{message.from}</dd>
           <dt className="text-slate-500">To</dt>
           <dd className="break-all text-slate-800">{message.to.join(', ')}</dd>
-          <dt className="text-slate-500">Received</dt>
-          <dd className="text-slate-800">{formatDateTime(message.receivedAt)}</dd>
+          <dt className="text-slate-500">Queued</dt>
+          <dd className="text-slate-800">{formatDateTime(message.createdAt)}</dd>
+          <dt className="text-slate-500">Delivery</dt>
+          <dd className="text-slate-800">
+            <StatusBadge message={message} /> <DeliveryText message={message} />
+          </dd>
+          {message.lastError ? (
+            <>
+              <dt className="text-slate-500">Last error</dt>
+              <dd className="break-words text-slate-800">{message.lastError}</dd>
+            </>
+          ) : null}
         </dl>
+        {message.status === 'failed' ? <RetryButton messageId={message.id} /> : null}
         <div className="rounded-md bg-slate-50 p-4 text-sm leading-relaxed whitespace-pre-wrap break-words text-slate-800 ring-1 ring-slate-200 ring-inset">
           <LinkifiedText text={message.text} />
         </div>
       </CardBody>
     </Card>
+  );
+}
+
+const STATUS_LABEL: Record<OutboxMessage['status'], string> = { pending: 'Waiting', sending: 'Sending', sent: 'Sent', failed: 'Not delivered' };
+const STATUS_TONE = { pending: 'warning', sending: 'warning', sent: 'accent', failed: 'danger' } as const;
+
+function StatusBadge({ message }: { message: OutboxMessage }) {
+  return <Badge tone={STATUS_TONE[message.status]}>{STATUS_LABEL[message.status]}</Badge>;
+}
+
+function DeliveryText({ message }: { message: OutboxMessage }) {
+  const tries = `${message.attempts} attempt${message.attempts === 1 ? '' : 's'}`;
+  if (message.status === 'sent') return <>to the mail relay {message.sentAt ? formatDateTime(message.sentAt) : ''} ({tries})</>;
+  if (message.status === 'failed') return <>the relay refused it {tries}; Kfield stopped trying</>;
+  if (message.status === 'sending') return <>being handed to the relay</>;
+  return <>{message.attempts ? `${tries} so far; next ` : 'due '}{message.nextAttemptAt ? formatDateTime(message.nextAttemptAt) : 'now'}</>;
+}
+
+function RetryButton({ messageId }: { messageId: string }) {
+  const queryClient = useQueryClient();
+  const toast = useToast();
+  const mutation = useMutation({
+    mutationFn: () => retryOutboxMessage(messageId),
+    onSuccess: async () => {
+      toast.success('The message is queued again.');
+      await queryClient.invalidateQueries({ queryKey: adminKeys.outbox() });
+    },
+    onError: (error) => toast.error(describeError(error)),
+  });
+  return (
+    <Button variant="secondary" size="sm" pending={mutation.isPending} onClick={() => mutation.mutate()}>
+      Try again now
+    </Button>
   );
 }
 
@@ -101,19 +147,19 @@ function ClearOutboxButton() {
   const mutation = useMutation({
     mutationFn: clearOutbox,
     onSuccess: async () => {
-      toast.success('The outbox is empty.');
+      toast.success('Sent and undelivered messages were removed; waiting ones stay.');
       await queryClient.invalidateQueries({ queryKey: adminKeys.outbox() });
     },
     onError: (error) => toast.error(describeError(error)),
   });
   return (
     <ConfirmButton
-      question="Delete every message in the outbox?"
-      confirmLabel="Delete all"
+      question="Remove every sent and undelivered message? Messages still waiting stay."
+      confirmLabel="Remove"
       pending={mutation.isPending}
       onConfirm={() => mutation.mutate()}
     >
-      Clear outbox
+      Remove sent messages
     </ConfirmButton>
   );
 }

@@ -13,7 +13,7 @@ export function MembersSummary({ siteId }: { siteId: string }) {
           <li key={member.userId} className="flex items-center justify-between gap-3 py-2">
             <span className="min-w-0">
               <span className="block truncate text-sm font-medium text-slate-900">{member.name}</span>
-              <span className="block truncate text-xs text-slate-500">{member.email}</span>
+              {member.email ? <span className="block truncate text-xs text-slate-500">{member.email}</span> : null}
             </span>
             <Badge tone={member.role === 'Lead' ? 'accent' : 'neutral'}>{member.role}</Badge>
           </li>

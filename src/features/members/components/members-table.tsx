@@ -21,12 +21,14 @@ type Props = {
 
 export function MembersTable(props: Props) {
   const { data } = useSuspenseQuery(membersQueryOptions(props.siteId));
+  // Viewers are not shown members' addresses (the server leaves them out).
+  const showEmail = data.members.some((m) => m.email !== null);
   return (
     <Table caption="Site members" minWidth={props.canManage ? 'min-w-[44rem]' : 'min-w-[32rem]'} stackOnMobile>
       <thead>
         <tr>
           <Th>Name</Th>
-          <Th>E-mail</Th>
+          {showEmail ? <Th>E-mail</Th> : null}
           <Th>Role</Th>
           <Th>Member since</Th>
           {props.canManage ? <Th className="text-right">Actions</Th> : null}
@@ -34,14 +36,14 @@ export function MembersTable(props: Props) {
       </thead>
       <tbody>
         {data.members.map((member) => (
-          <MemberRow key={member.userId} member={member} {...props} />
+          <MemberRow key={member.userId} member={member} showEmail={showEmail} {...props} />
         ))}
       </tbody>
     </Table>
   );
 }
 
-function MemberRow({ member, siteId, canManage, myUserId, onMembershipChanged, onLeftSite }: Props & { member: Member }) {
+function MemberRow({ member, showEmail, siteId, canManage, myUserId, onMembershipChanged, onLeftSite }: Props & { member: Member; showEmail: boolean }) {
   const queryClient = useQueryClient();
   const toast = useToast();
   const isMe = member.userId === myUserId;
@@ -85,7 +87,11 @@ function MemberRow({ member, siteId, canManage, myUserId, onMembershipChanged, o
           ) : null}
         </span>
       </Td>
-      <Td label="E-mail" className="whitespace-nowrap max-sm:break-all max-sm:whitespace-normal">{member.email}</Td>
+      {showEmail ? (
+        <Td label="E-mail" className="whitespace-nowrap max-sm:break-all max-sm:whitespace-normal">
+          {member.email}
+        </Td>
+      ) : null}
       <Td label="Role">
         {canManage ? (
           <InlineSelect
