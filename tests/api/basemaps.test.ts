@@ -22,11 +22,13 @@ let admin: ApiClient;
 const tmp = fs.mkdtempSync(path.join(os.tmpdir(), 'kfield-basemaps-'));
 /** The tile over the invented demo site's origin (9.160136 E, 47.763255 N) at zoom 14. */
 const DEMO = { z: 14, x: 8608, y: 5711 };
+/** Not the test server's own origin: the style must name it anyway (given with a trailing slash). */
+const PUBLIC_URL = 'http://kfield.example.org';
 
 beforeAll(async () => {
   const r = spawnSync(process.execPath, ['tiles/ensure.mjs'], { stdio: 'inherit' });
   expect(r.status, 'the basemap build').toBe(0);
-  ts = await startTestServer();
+  ts = await startTestServer({ PUBLIC_URL: `${PUBLIC_URL}/` });
   admin = await ts.as(demoEmail('Admin'));
 }, 180_000);
 afterAll(async () => ts.close());
@@ -124,15 +126,14 @@ describe('tiles of the built-in basemap', () => {
 });
 
 describe('the style', () => {
-  it('is a valid MapLibre style whose tile and glyph URLs are absolute on the caller’s origin and resolve', async () => {
+  it('is a valid MapLibre style whose tile and glyph URLs are absolute on PUBLIC_URL and resolve', async () => {
     const r = await ts.client().get('/tiles/style.json').expect(200);
     const style = r.body;
     expect(validateStyleMin(style).map((e) => e.message)).toEqual([]);
-    const origin = ts.baseUrl.replace('http://', '');
-    expect(style.glyphs).toMatch(new RegExp(`^http://${origin}/tiles/glyphs/\\{fontstack\\}/\\{range\\}\\.pbf\\?v=`));
+    expect(style.glyphs.startsWith(`${PUBLIC_URL}/tiles/glyphs/{fontstack}/{range}.pbf?v=`)).toBe(true);
     const sources = Object.values(style.sources) as { tiles: string[]; minzoom: number; maxzoom: number }[];
     expect(sources).toHaveLength(2);
-    for (const s of sources) expect(s.tiles[0]).toMatch(new RegExp(`^http://${origin}/tiles/\\{z\\}/\\{x\\}/\\{y\\}\\.pbf\\?v=`));
+    for (const s of sources) expect(s.tiles[0].startsWith(`${PUBLIC_URL}/tiles/{z}/{x}/{y}.pbf?v=`)).toBe(true);
     const tileUrl = new URL(sources[0].tiles[0].replace('{z}', String(DEMO.z)).replace('{x}', String(DEMO.x)).replace('{y}', String(DEMO.y)));
     const tile = await ts.client().get(tileUrl.pathname + tileUrl.search).expect(200);
     expect(tile.headers['cache-control']).toBe('public, max-age=31536000, immutable');
@@ -143,9 +144,19 @@ describe('the style', () => {
     expect(glyph.headers['cache-control']).toBe('public, max-age=31536000, immutable');
   });
 
-  it('uses the Host the caller used', async () => {
-    const r = await ts.client().get('/tiles/style.json').set('Host', 'maps.example.test:8443').expect(200);
-    expect(r.body.glyphs).toMatch(/^http:\/\/maps\.example\.test:8443\/tiles\/glyphs\//);
+  it('names PUBLIC_URL, never the Host header the caller sent', async () => {
+    const uploadedId = (await upload(admin, makeMbtiles(path.join(tmp, 'style.mbtiles')), 'style.mbtiles').expect(201)).body.id;
+    try {
+      for (const url of ['/tiles/style.json', `/tiles/${uploadedId}/style.json`]) {
+        const r = await ts.client().get(url).set('Host', 'evil.example.test:8443').set('X-Forwarded-Host', 'evil.example.test').expect(200);
+        expect(r.body.glyphs.startsWith(`${PUBLIC_URL}/tiles/glyphs/`)).toBe(true);
+        const tiles = Object.values(r.body.sources as Record<string, { tiles: string[] }>).flatMap((s) => s.tiles);
+        expect(tiles.length).toBeGreaterThan(0);
+        for (const t of tiles) expect(t.startsWith(`${PUBLIC_URL}/tiles/`)).toBe(true);
+      }
+    } finally {
+      await admin.delete(`/api/admin/basemaps/${uploadedId}`).expect(204);
+    }
   });
 });
 
@@ -176,10 +187,13 @@ describe('uploading basemaps', () => {
   it('accepts a small vector MBTiles, serves its tiles gzipped and a style for it, and lets a Lead choose it for a site', async () => {
     const bytes = makeMbtiles(path.join(tmp, 'ok.mbtiles'));
     const r = await upload(admin, bytes, 'ok.mbtiles', 'Test region').expect(201);
-    expect(r.body).toMatchObject({ name: 'Test region', builtIn: false, isDefault: false, styleKind: 'generic', sizeBytes: bytes.length });
+    expect(r.body).toMatchObject({ name: 'Test region', builtIn: false, isDefault: false, styleKind: 'generic' });
     expect(r.body.metadata).toMatchObject({ format: 'pbf', minzoom: 12, maxzoom: 12, bounds: [9.1, 47.7, 9.2, 47.8], gzipped: false });
     expect(r.body.metadata.vectorLayers).toEqual([{ id: 'transportation' }]);
     const id = r.body.id as string;
+    // What is kept and served is Kfield's copy of the upload, not the upload.
+    const copy = path.join(basemapDir(ts.config), `${id}.kfield.mbtiles`);
+    expect(r.body.sizeBytes).toBe(fs.statSync(copy).size);
 
     const list = (await admin.get('/api/admin/basemaps').expect(200)).body.basemaps as { id: string; builtIn: boolean; isDefault: boolean }[];
     expect(list.map((b) => b.id)).toEqual(['default', id]);
@@ -212,7 +226,7 @@ describe('uploading basemaps', () => {
     await lead.patch(`/api/sites/${ts.demoSiteId}`, { basemapId: id }).expect(200);
     await admin.delete(`/api/admin/basemaps/${id}`).expect(204);
     expect((await ts.ds.getRepository(Site).findOneByOrFail({ id: ts.demoSiteId })).basemapId).toBeNull();
-    expect(fs.existsSync(path.join(basemapDir(ts.config), `${id}.mbtiles`))).toBe(false);
+    expect(fs.existsSync(copy)).toBe(false);
     expect((await ts.client().get(`/tiles/${id}/12/${x}/${y}.pbf`)).status).toBe(404);
   });
 

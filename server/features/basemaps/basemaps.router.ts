@@ -42,15 +42,6 @@ function matches(header: string | undefined, etag: string): boolean {
   return header.split(',').some((t) => t.trim().replace(/^W\//, '') === etag);
 }
 
-/** The origin the caller used, for absolute URLs in the style (maplibre's workers need them). */
-function originOf(req: Request): string {
-  const host = req.get('host') ?? '';
-  if (!/^(?:[A-Za-z0-9-]+(?:\.[A-Za-z0-9-]+)*|\[[0-9A-Fa-f:.]+\])(?::\d{1,5})?$/.test(host)) {
-    throw badRequest('The request has no usable Host header, so the style cannot name its tile URLs');
-  }
-  return `${req.protocol}://${host}`;
-}
-
 /** Gzipped copies of tiles stored without compression, so they are compressed once, not per request. */
 const gzCache = new Map<string, Buffer>();
 function gzipped(hit: TileHit): Buffer {
@@ -86,7 +77,7 @@ function versionOf(req: Request): string | null {
   return q < 0 ? null : new URLSearchParams(req.url.slice(q + 1)).get('v');
 }
 
-function sendTile(req: Request, res: Response, f: MbtilesFile): void {
+async function sendTile(req: Request, res: Response, f: MbtilesFile): Promise<void> {
   const { z: zoom, x, y } = tileAddress(req);
   const cache = versionOf(req) === f.version ? IMMUTABLE : DAY;
   const hit = f.getTile(zoom, x, y);
@@ -102,7 +93,7 @@ function sendTile(req: Request, res: Response, f: MbtilesFile): void {
     return;
   }
   const gzipOk = /\bgzip\b/i.test(req.headers['accept-encoding'] ?? '');
-  const body = gzipOk ? gzipped(hit) : rawTile(hit.data);
+  const body = gzipOk ? gzipped(hit) : await rawTile(hit.data);
   headers['Content-Type'] = PBF;
   headers['Content-Length'] = String(body.length);
   if (gzipOk) headers['Content-Encoding'] = 'gzip';
@@ -122,7 +113,8 @@ export function basemapTileRoutes(ctx: AppContext, svc: BasemapsService): RouteD
     204: { description: 'No tile there (outside the basemap or empty)' },
     304: { description: 'Not modified (If-None-Match matched the ETag)' },
     400: err('Not a tile address'),
-    404: err('No such basemap'),
+    404: err('No such basemap, or an older upload that could not be copied within the limits'),
+    503: err('An older upload is being copied; try again after Retry-After seconds'),
   };
 
   async function fileOrThrow(id: string): Promise<MbtilesFile> {
@@ -132,11 +124,12 @@ export function basemapTileRoutes(ctx: AppContext, svc: BasemapsService): RouteD
   }
 
   const styleResponses = {
-    200: { description: 'A MapLibre style (version 8) with absolute tile and glyph URLs on the caller’s origin' },
-    404: err('No such basemap'),
+    200: { description: 'A MapLibre style (version 8) with absolute tile and glyph URLs on PUBLIC_URL' },
+    404: err('No such basemap, or an older upload that could not be copied within the limits'),
+    503: err('An older upload is being copied; try again after Retry-After seconds'),
   };
-  const style = async (req: Request, res: Response, id: string) => {
-    const s = await svc.style(id, originOf(req), glyphs.glyphVersion());
+  const style = async (res: Response, id: string) => {
+    const s = await svc.style(id, glyphs.glyphVersion());
     // Uploads and deletions change styles: revalidate every time (Express answers 304 on a matching ETag).
     res.setHeader('Cache-Control', 'no-cache');
     for (const [k, v] of Object.entries(SECURITY_HEADERS)) res.setHeader(k, v);
@@ -173,13 +166,13 @@ export function basemapTileRoutes(ctx: AppContext, svc: BasemapsService): RouteD
     {
       method: 'get', path: '/tiles/style.json', tag: 'Basemaps', summary: 'The built-in basemap’s style',
       responses: styleResponses,
-      handler: (req, res) => style(req, res, BUILTIN_BASEMAP_ID),
+      handler: (_req, res) => style(res, BUILTIN_BASEMAP_ID),
     },
     {
       method: 'get', path: '/tiles/:basemapId/style.json', tag: 'Basemaps',
       summary: 'A basemap’s style: Kfield’s own for tilesets with Kfield’s layer names, otherwise one generated from the layer list',
       params: basemapParams, responses: styleResponses,
-      handler: (req, res) => style(req, res, String(req.params.basemapId)),
+      handler: (req, res) => style(res, String(req.params.basemapId)),
     },
     {
       method: 'get', path: '/tiles/:basemapId/:z/:x/:y.pbf', tag: 'Basemaps', summary: 'A tile of a basemap ("default" is the built-in one)',
@@ -239,15 +232,15 @@ export function basemapApiRoutes(ctx: AppContext, svc: BasemapsService): RouteDe
     },
     {
       method: 'post', path: '/api/admin/basemaps', tag: 'Basemaps',
-      summary: 'Upload a vector MBTiles basemap (multipart: file, optional name); anything that is not SQLite, MBTiles and format pbf is refused and nothing is kept',
+      summary: 'Upload a vector MBTiles basemap (multipart: file, optional name); it is copied into Kfield’s own MBTiles within a time and size limit, and anything that is not SQLite, MBTiles and format pbf, or does not fit the limits, is refused and nothing is kept',
       status: 201,
       // The body is multipart, read by the upload middleware; its text fields are checked in the handler.
       requestBodies: { 'multipart/form-data': basemapUploadSchema.extend({ file: z.string().describe('The .mbtiles file') }) },
       before: [uploadMiddleware(ctx, svc)],
       responses: {
         201: { description: 'The new basemap', schema: basemapSchema },
-        400: err('Not a vector MBTiles file (the message says why), or no file'),
-        413: err('Larger than BASEMAP_MAX_UPLOAD_MB'),
+        400: err('Not a vector MBTiles file (the message says why), too slow to read within the time limit, or no file'),
+        413: err('Larger than BASEMAP_MAX_UPLOAD_MB, as uploaded or once copied, or more tiles or a larger tile than the limits'),
       },
       handler: (req) => svc.upload(req.file!, parseOrThrow(basemapUploadSchema, req.body ?? {}, 'request body').name),
     },

@@ -9,7 +9,8 @@ import { AppError, badRequest, conflict, notFound } from '../../lib/errors';
 import { Site } from '../sites/site.entity';
 import { Basemap } from './basemap.entity';
 import { genericStyle, kfieldStyle, styleKindOf, type Style } from './basemaps.style';
-import { MbtilesError, MbtilesFile } from './mbtiles';
+import { MbtilesFile } from './mbtiles';
+import { CopyRefused, copyMbtiles, type CopyLimits, type RunningCopy } from './mbtiles-copy';
 
 /** The folder uploaded basemaps live in: BASEMAP_DIR, or a basemaps folder beside the database file. */
 export function basemapDir(config: AppContext['config']): string {
@@ -30,20 +31,65 @@ export async function siteBasemapStyleUrl(m: EntityManager, chosen: string | nul
   return tileStyleUrl(def?.id ?? BUILTIN_BASEMAP_ID);
 }
 
+/** Kfield's copies of uploads are named <id>.kfield.mbtiles; any other file name in a row is an upload from before copies. */
+export const COPY_SUFFIX = '.kfield.mbtiles';
+const isCopy = (fileName: string) => fileName.endsWith(COPY_SUFFIX);
+
+/**
+ * Limits on copying an upload (decision 009). The size limit follows BASEMAP_MAX_UPLOAD_MB; the
+ * others are fixed here until they earn settings of their own.
+ */
+export function copyLimitsFor(config: AppContext['config']): CopyLimits {
+  return {
+    timeMs: 60_000,
+    maxBytes: Math.round(config.BASEMAP_MAX_UPLOAD_MB * 1024 * 1024),
+    maxTiles: 20_000_000,
+    maxTileBytes: 8 * 1024 * 1024,
+    maxMetadataBytes: 8 * 1024 * 1024,
+    ...overrides,
+  };
+}
+
+let overrides: Partial<CopyLimits> = {};
+/** For tests: tighter limits for the copies that start after this call (null restores the defaults). */
+export function overrideCopyLimits(limits: Partial<CopyLimits> | null): void {
+  overrides = limits ?? {};
+}
+
 export type BasemapsService = ReturnType<typeof createBasemapsService>;
 
 /**
- * The basemaps of this instance: the built-in one from tiles/dist and the uploaded ones. Open
- * MBTiles handles are cached per id (tile routes must not touch the app database), and dropped
- * when a basemap is deleted.
+ * The basemaps of this instance: the built-in one from tiles/dist and the uploaded ones, each
+ * served from Kfield's copy of the upload. Open MBTiles handles are cached per id (tile routes must
+ * not touch the app database), and dropped when a basemap is deleted.
  */
 export function createBasemapsService({ config, ds }: AppContext, log: (msg: string) => void = () => undefined) {
   const repo = ds.getRepository(Basemap);
   const dir = basemapDir(config);
+  const incoming = path.join(dir, 'incoming');
   const open = new Map<string, MbtilesFile | null>();
   /** Names of uploaded basemaps by id, so tile requests find their file without a query. */
   const known = new Map<string, Basemap>();
+  /** Copies of uploads from before copies existed: running, or refused with the reason. */
+  const legacyCopies = new Map<string, Promise<void>>();
+  const legacyRefusals = new Map<string, string>();
+  const running = new Set<RunningCopy>();
+  let closed = false;
   let builtInWarned = false;
+
+  // One copy at a time: each is CPU-bound and this server has few cores to share.
+  let queue: Promise<unknown> = Promise.resolve();
+  function copyInTurn(src: string, dest: string): Promise<Awaited<RunningCopy['done']>> {
+    const turn = queue.then(() => {
+      if (closed) throw new Error('The server is shutting down');
+      fs.mkdirSync(path.dirname(dest), { recursive: true });
+      const c = copyMbtiles(src, dest, copyLimitsFor(config));
+      running.add(c);
+      return c.done.finally(() => running.delete(c));
+    });
+    queue = turn.catch(() => undefined);
+    return turn;
+  }
 
   function builtIn(): MbtilesFile | null {
     if (open.has(BUILTIN_BASEMAP_ID)) return open.get(BUILTIN_BASEMAP_ID)!;
@@ -71,15 +117,76 @@ export function createBasemapsService({ config, ds }: AppContext, log: (msg: str
     return row;
   }
 
-  /** The open file of a basemap, or null when there is no such basemap (or its file is gone). */
+  /**
+   * Copies an upload from before copies existed, once; the original is deleted when the copy is in
+   * place. Until then its tiles answer 503; a refused copy leaves the basemap unusable, with the reason.
+   */
+  function copyLegacy(row: Basemap): Promise<void> {
+    const pending = legacyCopies.get(row.id);
+    if (pending) return pending;
+    if (legacyRefusals.has(row.id)) return Promise.resolve();
+    const src = path.join(dir, row.fileName);
+    const fileName = `${row.id}${COPY_SUFFIX}`;
+    const part = path.join(incoming, `${fileName}.part`);
+    const p = (async () => {
+      try {
+        const copied = await copyInTurn(src, part);
+        if (!(await repo.exists({ where: { id: row.id } }))) {
+          fs.rmSync(part, { force: true });
+          return;
+        }
+        fs.renameSync(part, path.join(dir, fileName));
+        await repo.update({ id: row.id }, { fileName, sizeBytes: copied.sizeBytes, metadata: copied.metadata });
+        known.delete(row.id);
+        fs.rmSync(src, { force: true });
+        log(`Kfield: basemap ${row.name} (${row.id}) now served from Kfield's copy (${copied.tiles} tiles)`);
+      } catch (e) {
+        fs.rmSync(part, { force: true });
+        if (closed) return;
+        const reason = e instanceof CopyRefused ? e.message : `the copy failed (${(e as Error).message})`;
+        legacyRefusals.set(row.id, reason);
+        log(`Kfield: basemap ${row.name} (${row.id}) could not be copied and is not served: ${reason}`);
+      } finally {
+        legacyCopies.delete(row.id);
+      }
+    })();
+    legacyCopies.set(row.id, p);
+    return p;
+  }
+
+  /** Started with the service, in the background: the server answers while older uploads are copied. */
+  async function copyAllLegacy(): Promise<void> {
+    try {
+      const rows = await repo.find();
+      for (const row of rows) if (!isCopy(row.fileName) && !closed) void copyLegacy(row);
+    } catch (e) {
+      if (!closed) log(`Kfield: could not look for basemaps to copy: ${(e as Error).message}`);
+    }
+  }
+  setImmediate(() => {
+    if (!closed) void copyAllLegacy();
+  });
+
+  /**
+   * The open file of a basemap, or null when there is no such basemap (or its file is gone).
+   * Throws 503 while an older upload is being copied and 404 with the reason when it could not be.
+   */
   async function file(id: string): Promise<MbtilesFile | null> {
     if (id === BUILTIN_BASEMAP_ID) return builtIn();
     if (open.has(id)) return open.get(id)!;
     const row = await rowOf(id);
     if (!row) return null;
+    if (!isCopy(row.fileName)) {
+      const refused = legacyRefusals.get(id);
+      if (refused) {
+        throw new AppError('BASEMAP_UNUSABLE', `The basemap ${row.name} could not be copied into Kfield: ${refused}. Delete it and upload a file that fits the limits.`, 404);
+      }
+      void copyLegacy(row);
+      throw new AppError('BASEMAP_PREPARING', `The basemap ${row.name} is being prepared; try again in a few seconds`, 503, undefined, { 'Retry-After': '5' });
+    }
     let f: MbtilesFile | null = null;
     try {
-      f = MbtilesFile.open(path.join(dir, row.fileName));
+      f = MbtilesFile.openCopy(path.join(dir, row.fileName), row.metadata);
     } catch (e) {
       log(`Kfield: basemap ${row.name} (${id}) cannot be read: ${(e as Error).message}`);
     }
@@ -146,26 +253,29 @@ export function createBasemapsService({ config, ds }: AppContext, log: (msg: str
     return found;
   }
 
-  /** Check an uploaded file and keep it, or refuse it and keep nothing. */
+  /**
+   * Check an uploaded file by copying it into Kfield's own MBTiles within the limits, keep the copy
+   * and delete the upload; or refuse it and keep nothing.
+   */
   async function upload(upload: { path: string; originalname: string; size: number }, name: string | undefined): Promise<BasemapDto> {
-    let checked: MbtilesFile;
-    try {
-      checked = MbtilesFile.open(upload.path);
-    } catch (e) {
-      fs.rmSync(upload.path, { force: true });
-      if (e instanceof MbtilesError) throw badRequest(e.message, { file: e.message }, 'NOT_VECTOR_MBTILES');
-      throw e;
-    }
-    const metadata = checked.metadata;
-    checked.close();
     const id = randomUUID();
-    const fileName = `${id}.mbtiles`;
-    const fallbackName = metadata.title || upload.originalname.replace(/\.mbtiles$/i, '') || 'Uploaded basemap';
-    fs.mkdirSync(dir, { recursive: true });
-    const dest = path.join(dir, fileName);
-    fs.renameSync(upload.path, dest);
+    const fileName = `${id}${COPY_SUFFIX}`;
+    const part = path.join(incoming, `${fileName}.part`);
+    let copied: Awaited<RunningCopy['done']>;
     try {
-      await repo.insert({ id, name: (name || fallbackName).slice(0, 120), fileName, sizeBytes: upload.size, metadata, isDefault: false });
+      copied = await copyInTurn(upload.path, part);
+    } catch (e) {
+      if (e instanceof CopyRefused) throw new AppError(e.code, e.message, e.status, { file: e.message });
+      throw e;
+    } finally {
+      fs.rmSync(upload.path, { force: true });
+    }
+    const { metadata } = copied;
+    const fallbackName = metadata.title || upload.originalname.replace(/\.mbtiles$/i, '') || 'Uploaded basemap';
+    const dest = path.join(dir, fileName);
+    fs.renameSync(part, dest);
+    try {
+      await repo.insert({ id, name: (name || fallbackName).slice(0, 120), fileName, sizeBytes: copied.sizeBytes, metadata, isDefault: false });
     } catch (e) {
       fs.rmSync(dest, { force: true });
       throw e;
@@ -208,11 +318,16 @@ export function createBasemapsService({ config, ds }: AppContext, log: (msg: str
     open.get(id)?.close();
     open.delete(id);
     known.delete(id);
+    legacyRefusals.delete(id);
     fs.rmSync(path.join(dir, row.fileName), { force: true });
   }
 
-  /** The style of a basemap with absolute URLs on the caller's origin and versioned tile URLs. */
-  async function style(id: string, origin: string, glyphVersion: string): Promise<Style> {
+  /**
+   * The style of a basemap with absolute URLs on PUBLIC_URL (maplibre's workers need absolute
+   * URLs; the Host header is the caller's to forge) and versioned tile URLs.
+   */
+  async function style(id: string, glyphVersion: string): Promise<Style> {
+    const origin = config.PUBLIC_URL.replace(/\/+$/, '');
     const f = await file(id);
     if (!f) throw id === BUILTIN_BASEMAP_ID ? builtInMissing() : notFound('The basemap');
     const row = id === BUILTIN_BASEMAP_ID ? null : await rowOf(id);
@@ -226,6 +341,8 @@ export function createBasemapsService({ config, ds }: AppContext, log: (msg: str
   }
 
   function close(): void {
+    closed = true;
+    for (const c of running) c.cancel();
     for (const f of open.values()) f?.close();
     open.clear();
   }
