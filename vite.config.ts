@@ -55,6 +55,19 @@ export default defineConfig({
           fileParallelism: false,
         },
       },
+      {
+        extends: true,
+        oxc: { decorator: { legacy: true } },
+        test: {
+          // Real server processes killed and restarted, a fuzzer over every route: one file at a time.
+          name: 'reliability',
+          include: ['tests/reliability/**/*.test.ts'],
+          environment: 'node',
+          testTimeout: 300000,
+          hookTimeout: 180000,
+          fileParallelism: false,
+        },
+      },
     ],
   },
 });

@@ -1,7 +1,7 @@
 import 'reflect-metadata';
 import type { Server } from 'node:http';
 import { createApp } from './app';
-import { ConfigError, loadConfig } from './config';
+import { ConfigError, loadConfig, startupWarnings } from './config';
 import { openDatabase } from './db/data-source';
 import { seedDemoIfEmpty } from './db/seed/demo';
 import { startFakeSmtp, type FakeSmtp } from './features/mail/fake-smtp';
@@ -12,6 +12,7 @@ async function main() {
   installCrashNet((msg, e) => console.error(`Kfield: ${msg}:`, e));
   const config = loadConfig();
   const ds = await openDatabase(config.DATABASE_PATH);
+  for (const warning of startupWarnings(config)) console.warn(warning);
   if (config.DEMO_DATA) {
     const seeded = await seedDemoIfEmpty(ds, config);
     if (seeded) console.log('Kfield: loaded the demo scenario (invented data) into the empty database');

@@ -28,16 +28,23 @@ export async function signIn(req: Request, user: Express.User): Promise<string> 
   return issueCsrfToken(req);
 }
 
+/** Each failure past the per-address threshold waits this much longer, up to the cap. */
+const SLOWDOWN_STEP_MS = 500;
+const SLOWDOWN_MAX_MS = 3000;
+
+const accountKey = (req: Request) => String((req.body as { email?: unknown })?.email ?? '').trim().toLowerCase();
+const addressKey = (req: Request) => ipKeyGenerator(req.ip ?? '');
+
+/**
+ * Failed sign-ins are counted per account and per account-and-address, and those refuse with 429;
+ * per address they only slow down, so people behind one shared address (an office, a proxy) are
+ * not locked out by someone else's guessing. Counts live in express-rate-limit's memory store.
+ */
 function loginLimiters(ctx: AppContext): RequestHandler[] {
-  const common = {
-    windowMs: ctx.config.LOGIN_WINDOW_SECONDS * 1000,
-    limit: ctx.config.LOGIN_MAX_FAILURES,
-    skipSuccessfulRequests: true,
-    standardHeaders: 'draft-7' as const,
-    legacyHeaders: false,
-  };
+  const windowMs = ctx.config.LOGIN_WINDOW_SECONDS * 1000;
+  const common = { windowMs, skipSuccessfulRequests: true, legacyHeaders: false };
   const tooMany = (scope: string) => (req: Request, res: Response) => {
-    const reset = (req as Request & { rateLimit?: { resetTime?: Date } }).rateLimit?.resetTime?.getTime() ?? Date.now() + common.windowMs;
+    const reset = (req as Request & { rateLimit?: { resetTime?: Date } }).rateLimit?.resetTime?.getTime() ?? Date.now() + windowMs;
     const seconds = Math.max(1, Math.ceil((reset - Date.now()) / 1000));
     res.setHeader('Retry-After', String(seconds));
     const minutes = Math.ceil(seconds / 60);
@@ -48,11 +55,32 @@ function loginLimiters(ctx: AppContext): RequestHandler[] {
       },
     });
   };
+  const slowDown = rateLimit({
+    ...common,
+    standardHeaders: false,
+    limit: ctx.config.LOGIN_SLOWDOWN_AFTER_PER_ADDRESS,
+    requestPropertyName: 'loginSlowdown',
+    keyGenerator: (req) => `ip:${addressKey(req)}`,
+    handler: (req, _res, next) => {
+      const info = (req as Request & { loginSlowdown?: { used: number; limit: number } }).loginSlowdown;
+      const over = info ? info.used - info.limit : 1;
+      setTimeout(next, Math.min(SLOWDOWN_MAX_MS, over * SLOWDOWN_STEP_MS));
+    },
+  });
   return [
-    rateLimit({ ...common, limit: ctx.config.LOGIN_MAX_FAILURES_PER_ADDRESS, keyGenerator: (req) => `ip:${ipKeyGenerator(req.ip ?? '')}`, handler: tooMany('from this address') }),
+    slowDown,
     rateLimit({
       ...common,
-      keyGenerator: (req) => `acct:${String((req.body as { email?: unknown })?.email ?? '').trim().toLowerCase()}`,
+      standardHeaders: 'draft-7',
+      limit: ctx.config.LOGIN_MAX_FAILURES_PER_ACCOUNT_ADDRESS,
+      keyGenerator: (req) => `acct-ip:${accountKey(req)}|${addressKey(req)}`,
+      handler: tooMany('for this account from this address'),
+    }),
+    rateLimit({
+      ...common,
+      standardHeaders: 'draft-7',
+      limit: ctx.config.LOGIN_MAX_FAILURES,
+      keyGenerator: (req) => `acct:${accountKey(req)}`,
       handler: tooMany('for this account'),
     }),
   ];
@@ -74,21 +102,15 @@ export function authRoutes(ctx: AppContext, pp: passport.PassportStatic, store: 
       responses: {
         200: { description: 'Signed in', schema: loginResponseSchema },
         400: err('Missing or malformed e-mail or password'),
-        401: err('Wrong e-mail or password'),
-        403: err('Account disabled'),
-        429: err('Too many failed attempts'),
+        401: err('Wrong e-mail or password, or a disabled account (the same answer, so neither can be told apart)'),
+        429: err('Too many failed attempts for this account, from this address or from anywhere'),
       },
       handler: (req: Request, res: Response) =>
         new Promise<unknown>((resolve, reject) => {
           const next: NextFunction = (e?: unknown) => (e ? reject(e) : resolve(undefined));
-          pp.authenticate('local', (e: unknown, user: Express.User | false, info?: { message?: string }) => {
+          pp.authenticate('local', (e: unknown, user: Express.User | false) => {
             if (e) return reject(e);
-            if (!user) {
-              if (info?.message === 'ACCOUNT_DISABLED') {
-                return reject(new AppError('ACCOUNT_DISABLED', 'This account is disabled; ask your administrator', 403));
-              }
-              return reject(new AppError('BAD_CREDENTIALS', 'The e-mail or password is not right', 401));
-            }
+            if (!user) return reject(new AppError('BAD_CREDENTIALS', 'The e-mail or password is not right', 401));
             signIn(req, user)
               .then(async (csrfToken) => {
                 await ctx.ds.getRepository(User).update({ id: user.id }, { lastSignInAt: new Date() });
