@@ -22,11 +22,13 @@ export function createPassport(ctx: AppContext): passport.PassportStatic {
       (async () => {
         const user = await users.findOne({ where: { email: email.trim().toLowerCase() } });
         if (!user) {
-          await burnPasswordCheck(password);
+          await burnPasswordCheck(password, ctx.config.BCRYPT_COST);
           return done(null, false, { message: 'BAD_CREDENTIALS' });
         }
-        if (!(await verifyPassword(password, user.passwordHash))) return done(null, false, { message: 'BAD_CREDENTIALS' });
-        if (user.disabled) return done(null, false, { message: 'ACCOUNT_DISABLED' });
+        // A disabled account answers like a wrong password, after the same bcrypt work, so that
+        // neither the answer nor its time tells whether the account exists.
+        const passwordOk = await verifyPassword(password, user.passwordHash);
+        if (!passwordOk || user.disabled) return done(null, false, { message: 'BAD_CREDENTIALS' });
         done(null, toSessionUser(user));
       })().catch(done);
     }),

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { genericPasswordProblems } from './password';
 
 /** The one JSON error shape for every 4xx/5xx answer. */
 export const errorBodySchema = z.object({
@@ -25,13 +26,12 @@ export const emailSchema = z
   .pipe(z.email({ error: 'Enter a valid e-mail address' }))
   .transform((v) => v.toLowerCase());
 
-const utf8Bytes = (s: string) => new TextEncoder().encode(s).length;
-
-/** bcrypt reads at most 72 bytes: longer passwords are refused, never truncated. */
+/** 12 to 72 bytes, not one character repeated, not a common or breached password (shared/schemas/password.ts). */
 export const newPasswordSchema = z
   .string({ error: 'Password is required' })
-  .refine((p) => utf8Bytes(p) >= 12, 'Password must be at least 12 bytes long')
-  .refine((p) => utf8Bytes(p) <= 72, 'Password must be at most 72 bytes long (longer ones cannot be stored safely)');
+  .superRefine((p, ctx) => {
+    for (const message of genericPasswordProblems(p)) ctx.addIssue({ code: 'custom', message });
+  });
 
 export const personNameSchema = z
   .string({ error: 'Name is required' })

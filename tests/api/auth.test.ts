@@ -85,8 +85,9 @@ describe('sign-in', () => {
     await c.get('/api/auth/me').expect(401);
     const again = await ts.client().refreshCsrf();
     const r = await again.post('/api/auth/login', { email: demoEmail('Checker'), password: DEMO_PASSWORD });
-    expect(r.status).toBe(403);
-    expect(r.body.error.code).toBe('ACCOUNT_DISABLED');
+    // Answered like a wrong password (issue 16 item 6: no account enumeration).
+    expect(r.status).toBe(401);
+    expect(r.body.error.code).toBe('BAD_CREDENTIALS');
     await ts.ds.getRepository(User).update({ email: demoEmail('Checker') }, { disabled: false });
   });
 });
@@ -142,13 +143,11 @@ describe('sessions', () => {
 });
 
 describe('rate limiting', () => {
-  it('answers the 11th failed sign-in for one account within the window with 429 and a retry time', async () => {
+  it('answers the 6th failed sign-in for one account from one address within the window with 429 and a retry time', async () => {
     const limited = await startTestServer();
     try {
       const email = demoEmail('Viewer');
-      // Spread over addresses is not possible here; a fresh client per attempt still shares the address,
-      // so the account limit and the address limit both allow exactly ten failures.
-      for (let i = 0; i < 10; i++) {
+      for (let i = 0; i < 5; i++) {
         const c = await limited.client().refreshCsrf();
         expect((await c.post('/api/auth/login', { email, password: `wrong-password-${i}` })).status).toBe(401);
       }
@@ -163,8 +162,8 @@ describe('rate limiting', () => {
     }
   });
 
-  it('limits per account even when the address allows more', async () => {
-    const limited = await startTestServer({ LOGIN_MAX_FAILURES: '3', LOGIN_MAX_FAILURES_PER_ADDRESS: '100' });
+  it('limits per account, and another account from the same address still signs in', async () => {
+    const limited = await startTestServer({ LOGIN_MAX_FAILURES: '3' });
     try {
       for (let i = 0; i < 3; i++) {
         const c = await limited.client().refreshCsrf();
@@ -174,24 +173,7 @@ describe('rate limiting', () => {
       const r = await c.post('/api/auth/login', { email: demoEmail('Analyst'), password: DEMO_PASSWORD });
       expect(r.status).toBe(429);
       expect(r.body.error.message).toMatch(/for this account/);
-      // Another account from the same address still signs in.
       await limited.as(demoEmail('Lead'));
-    } finally {
-      await limited.close();
-    }
-  });
-
-  it('limits per address across accounts', async () => {
-    const limited = await startTestServer({ LOGIN_MAX_FAILURES: '100', LOGIN_MAX_FAILURES_PER_ADDRESS: '3' });
-    try {
-      for (const role of ['Analyst', 'Checker', 'Viewer'] as const) {
-        const c = await limited.client().refreshCsrf();
-        await c.post('/api/auth/login', { email: demoEmail(role), password: 'wrong-password-x' }).expect(401);
-      }
-      const c = await limited.client().refreshCsrf();
-      const r = await c.post('/api/auth/login', { email: demoEmail('Lead'), password: DEMO_PASSWORD });
-      expect(r.status).toBe(429);
-      expect(r.body.error.message).toMatch(/from this address/);
     } finally {
       await limited.close();
     }
