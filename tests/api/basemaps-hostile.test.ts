@@ -5,7 +5,9 @@ import os from 'node:os';
 import path from 'node:path';
 import { GeoJSONVT } from '@maplibre/geojson-vt';
 import { fromGeojsonVt } from '@maplibre/vt-pbf';
+import zlib from 'node:zlib';
 import Database from 'better-sqlite3';
+import { PbfWriter } from 'pbf';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { lonLatToTile, tmsRow } from '@shared/geo/tiles';
 import { Basemap } from '../../server/features/basemaps/basemap.entity';
@@ -35,7 +37,7 @@ const countTo = (n: number) => `(WITH RECURSIVE c(x) AS (SELECT 1 UNION ALL SELE
  * A vector MBTiles whose `tiles` is a view over a real table that first counts to `slowness`:
  * every query on the view costs that count once, however few rows it returns.
  */
-function slowMbtiles(name: string, slowness: number, tileCount = 9): Buffer {
+function slowMbtiles(name: string, slowness: number, tileCount = 9, tileData?: Buffer): Buffer {
   const file = path.join(tmp, name);
   fs.rmSync(file, { force: true });
   const db = new Database(file);
@@ -53,7 +55,7 @@ function slowMbtiles(name: string, slowness: number, tileCount = 9): Buffer {
     const x = AT.x - 1 + (i % side);
     const y = AT.y - 1 + Math.floor(i / side);
     const tile = vt.getTile(Z, x, y) ?? { features: [], numPoints: 0, numSimplified: 0, numFeatures: 0, source: null, x, y, z: Z, transformed: false, minX: 0, minY: 0, maxX: 0, maxY: 0 };
-    db.prepare('INSERT INTO real_tiles VALUES (?, ?, ?, ?)').run(Z, x, tmsRow(Z, y), Buffer.from(fromGeojsonVt({ road: tile }, { version: 2, extent: 4096 })));
+    db.prepare('INSERT INTO real_tiles VALUES (?, ?, ?, ?)').run(Z, x, tmsRow(Z, y), tileData ?? Buffer.from(fromGeojsonVt({ road: tile }, { version: 2, extent: 4096 })));
   }
   db.exec(`CREATE VIEW tiles AS SELECT zoom_level, tile_column, tile_row, tile_data FROM real_tiles WHERE ${countTo(slowness)} > 0`);
   db.close();
@@ -175,6 +177,22 @@ describe('copies of uploads', () => {
     expect(r.body.error.message).toMatch(/more than 4 tiles/);
     expect(filesIn(basemapDir(ts.config))).toEqual([]);
   });
+
+  it('refuses a tile that a few kilobytes of gzip blow up into more than the tile limit', async () => {
+    // A valid vector tile (layer "road", version 2) whose key table is one 40 MB string of "a".
+    const w = new PbfWriter();
+    w.writeMessage(3, (_: unknown, l: PbfWriter) => {
+      l.writeStringField(1, 'road');
+      l.writeStringField(3, 'a'.repeat(40 * 1024 * 1024));
+      l.writeVarintField(15, 2);
+    }, null);
+    const bomb = zlib.gzipSync(Buffer.from(w.finish()), { level: 9 });
+    expect(bomb.length).toBeLessThan(100_000);
+    const r = await upload(admin, slowMbtiles('bomb.mbtiles', 1, 1, bomb), 'bomb.mbtiles');
+    expect(r.status).toBe(413);
+    expect(r.body.error.message).toMatch(/A tile at zoom 12 is larger than the limit of 8 MB for one tile/);
+    expect(filesIn(basemapDir(ts.config))).toEqual([]);
+  }, 60_000);
 });
 
 describe('basemaps uploaded before copies existed', () => {
@@ -213,6 +231,22 @@ describe('basemaps uploaded before copies existed', () => {
     expect((await ts.ds.getRepository(Basemap).findOneByOrFail({ id })).fileName).toBe(`${id}.kfield.mbtiles`);
     await admin.delete(`/api/admin/basemaps/${id}`).expect(204);
   }, 30_000);
+
+  it('are copied in the background when the server starts, before anyone asks for them', async () => {
+    const id = await legacy(slowMbtiles('legacy-start.mbtiles', 1));
+    const restarted = await startTestServer({}, ts.dbPath);
+    try {
+      const copied = path.join(basemapDir(ts.config), `${id}.kfield.mbtiles`);
+      const until = Date.now() + 15_000;
+      while (!fs.existsSync(copied) && Date.now() < until) await new Promise((res) => setTimeout(res, 100));
+      expect(filesIn(basemapDir(ts.config))).toEqual([`${id}.kfield.mbtiles`]);
+      await expect.poll(async () => (await ts.ds.getRepository(Basemap).findOneByOrFail({ id })).fileName).toBe(`${id}.kfield.mbtiles`);
+      await restarted.client().get(`/tiles/${id}/${Z}/${AT.x}/${AT.y}.pbf`).expect(200);
+    } finally {
+      await restarted.close();
+    }
+    await admin.delete(`/api/admin/basemaps/${id}`).expect(204);
+  }, 60_000);
 
   it('one that cannot be copied within the limits is never served from the original and says why', async () => {
     overrideCopyLimits({ timeMs: 1000 });

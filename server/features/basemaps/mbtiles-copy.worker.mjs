@@ -3,6 +3,7 @@
 // process, which the parent kills at the time limit. One job per process: the parent sends
 // { src, dest, limits } and gets one message back: done, refused or limit.
 import fs from 'node:fs';
+import { Worker } from 'node:worker_threads';
 import zlib from 'node:zlib';
 import Database from 'better-sqlite3';
 import { KFIELD_APPLICATION_ID, MbtilesError, checkHead, checkSchema, checkTile, deriveMetadata, isGzip, readMetadata } from './mbtiles-check.mjs';
@@ -118,7 +119,19 @@ function copy({ src, dest, limits }) {
   }
 }
 
+/**
+ * If the server dies without killing this process, nothing else would stop a copy stuck in one
+ * long SQLite step; a thread of its own kills it at the deadline or once the parent is gone.
+ */
+function watchdog(deadlineMs) {
+  const code = `const { workerData: w } = require('node:worker_threads');
+    setInterval(() => { if (process.ppid !== w.parent) process.kill(w.pid, 'SIGKILL'); }, 500);
+    setTimeout(() => process.kill(w.pid, 'SIGKILL'), w.deadlineMs);`;
+  new Worker(code, { eval: true, workerData: { pid: process.pid, parent: process.ppid, deadlineMs } }).unref();
+}
+
 process.once('message', (job) => {
+  watchdog(job.limits.timeMs + 5000);
   let answer;
   try {
     answer = { type: 'done', ...copy(job) };
