@@ -23,6 +23,8 @@ export async function startFakeSmtp(ds: DataSource, port: number, host = '127.0.
     disabledCommands: ['STARTTLS', 'AUTH'],
     banner: 'Kfield local mail service',
     logger: false,
+    // Loopback only: a reverse DNS look-up of 127.0.0.1 only adds delay on a machine with no network.
+    disableReverseLookup: true,
     size: 5 * 1024 * 1024,
     onData(stream, _session, callback) {
       simpleParser(stream)

@@ -32,6 +32,9 @@ export function createMailer(s: SmtpSettings): Mailer {
     auth: s.user ? { user: s.user, pass: s.password ?? '' } : undefined,
     // The local fake service speaks plain SMTP on loopback.
     ignoreTLS: !s.secure && (s.host === '127.0.0.1' || s.host === 'localhost'),
+    // One kept-open connection: a new SMTP session per message costs ~100 ms even on loopback.
+    pool: true,
+    maxConnections: 1,
     connectionTimeout: 10_000,
     greetingTimeout: 10_000,
     // A relay that holds a message this long is treated as a failure; the outbox retries later.
