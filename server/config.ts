@@ -19,6 +19,8 @@ export const configSchema = z.object({
   /** Production refuses an http PUBLIC_URL unless this is true (e.g. a closed network without TLS). */
   ALLOW_HTTP_PUBLIC_URL: bool.default(false),
   TRUST_PROXY: bool.default(false),
+  /** Who may create sites: admins only, or also anyone who is Lead of at least one site. */
+  SITE_CREATORS: z.enum(['admins', 'leads'], { error: 'must be admins or leads' }).default('admins'),
   SESSION_IDLE_SECONDS: duration.default(8 * 3600),
   SESSION_ABSOLUTE_SECONDS: duration.default(7 * 24 * 3600),
   BCRYPT_COST: z.coerce.number().int().min(10, 'must be at least 10').max(15).default(12),

@@ -77,6 +77,7 @@ export const policyTable: Record<string, PolicyRule> = {
 
   'GET /api/crs/:code': SIGNED_IN,
   'GET /api/sites': SIGNED_IN,
+  // And SITE_CREATORS: the sites service answers 403 SITE_CREATOR_REQUIRED (canCreateSites).
   'POST /api/sites': SIGNED_IN,
   'GET /api/sites/:siteId': site(anyRole),
   'PATCH /api/sites/:siteId': site(['Lead']),

@@ -12,6 +12,8 @@ export const meSchema = z.object({
   email: z.string(),
   name: z.string(),
   isAdmin: z.boolean(),
+  /** Whether "New site" is offered: Admins, or Leads when SITE_CREATORS=leads. */
+  canCreateSites: z.boolean().optional(),
 });
 export type Me = z.infer<typeof meSchema>;
 

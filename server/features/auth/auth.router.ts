@@ -16,6 +16,7 @@ import { AppError, unauthorized } from '../../lib/errors';
 import type { RouteDef } from '../../lib/route';
 import { issueCsrfToken } from '../../auth/csrf';
 import type { SqliteSessionStore } from '../../auth/session-store';
+import { canCreateSites } from '../sites/sites.service';
 import { User } from '../users/user.entity';
 import { createAuthService } from './auth.service';
 
@@ -114,7 +115,7 @@ export function authRoutes(ctx: AppContext, pp: passport.PassportStatic, store: 
             signIn(req, user)
               .then(async (csrfToken) => {
                 await ctx.ds.getRepository(User).update({ id: user.id }, { lastSignInAt: new Date() });
-                resolve({ user: meSchema.parse(user), csrfToken });
+                resolve({ user: meSchema.parse({ ...user, canCreateSites: await canCreateSites(ctx, user) }), csrfToken });
               })
               .catch(reject);
           })(req, res, next);
@@ -132,9 +133,9 @@ export function authRoutes(ctx: AppContext, pp: passport.PassportStatic, store: 
     {
       method: 'get', path: '/api/auth/me', tag: 'Sign-in', summary: 'The signed-in user',
       responses: { 200: { description: 'Signed in', schema: z.object({ user: meSchema }) }, 401: err('Signed out') },
-      handler: (req) => {
+      handler: async (req) => {
         if (!req.user) throw unauthorized();
-        return { user: meSchema.parse(req.user) };
+        return { user: meSchema.parse({ ...req.user, canCreateSites: await canCreateSites(ctx, req.user) }) };
       },
     },
     {

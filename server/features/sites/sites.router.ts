@@ -31,7 +31,7 @@ export function sitesRoutes(ctx: AppContext): RouteDef[] {
     {
       method: 'post', path: '/api/sites', tag: 'Sites', summary: 'Create a site; the creator becomes its Lead',
       body: siteBodySchema, status: 201,
-      responses: { 201: { description: 'Created', schema: siteSchema }, 400: err('Invalid fields or unknown EPSG code') },
+      responses: { 201: { description: 'Created', schema: siteSchema }, 400: err('Invalid fields or unknown EPSG code'), 403: err('Not allowed to create sites (SITE_CREATORS)') },
       handler: (req) => svc.create(req.user!, req.body),
     },
     {

@@ -3,7 +3,7 @@ import type { z } from 'zod';
 import type { SiteRole } from '@shared/schemas/common';
 import type { siteBodySchema, sitePatchSchema, Site as SiteDto } from '@shared/schemas/sites';
 import type { AppContext } from '../../context';
-import { badRequest, notFound } from '../../lib/errors';
+import { badRequest, forbidden, notFound } from '../../lib/errors';
 import { basemapExists, siteBasemapStyleUrl } from '../basemaps/basemaps.service';
 import { reexpressSiteWells } from '../wells/wells.service';
 import { lookupCrs } from './crs';
@@ -16,7 +16,15 @@ function crsOrThrow(code: number) {
   return crs;
 }
 
-export function createSitesService({ ds }: AppContext) {
+/** Admins create sites; with SITE_CREATORS=leads so does anyone who leads at least one site. */
+export async function canCreateSites({ ds, config }: AppContext, user: Express.User): Promise<boolean> {
+  if (user.isAdmin) return true;
+  if (config.SITE_CREATORS !== 'leads') return false;
+  return ds.getRepository(Membership).exists({ where: { userId: user.id, role: 'Lead' } });
+}
+
+export function createSitesService(ctx: AppContext) {
+  const { ds } = ctx;
   const sites = ds.getRepository(Site);
   const memberships = ds.getRepository(Membership);
 
@@ -54,6 +62,10 @@ export function createSitesService({ ds }: AppContext) {
   }
 
   async function create(user: Express.User, body: z.output<typeof siteBodySchema>): Promise<SiteDto> {
+    if (!(await canCreateSites(ctx, user))) {
+      const who = ctx.config.SITE_CREATORS === 'leads' ? 'an instance admin or the Lead of a site' : 'an instance admin';
+      throw forbidden(`Only ${who} can create a site`, 'SITE_CREATOR_REQUIRED');
+    }
     const crs = crsOrThrow(body.epsgCode);
     const id = await ds.transaction(async (m) => {
       const site = await m.getRepository(Site).save(

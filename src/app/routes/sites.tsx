@@ -27,7 +27,7 @@ export function SitesRoute() {
             : 'The sites you are a member of.'
         }
         actions={
-          creating ? null : (
+          creating || !me?.canCreateSites ? null : (
             <Button onClick={() => setCreating(true)} aria-expanded={false} aria-controls="new-site">
               New site
             </Button>
@@ -55,7 +55,9 @@ export function SitesRoute() {
         </Card>
       ) : null}
       <QueryBoundary loadingLabel="Loading sites…" errorTitle="The sites could not be loaded">
-        <SiteCards emptyHint="Create a site with “New site”, or ask a site's Lead to invite you." />
+        <SiteCards
+          emptyHint={me?.canCreateSites ? "Create a site with “New site”, or ask a site's Lead to invite you." : "Ask a site's Lead to invite you."}
+        />
       </QueryBoundary>
     </>
   );

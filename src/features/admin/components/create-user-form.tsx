@@ -1,8 +1,10 @@
+import { useEffect } from 'react';
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import type { z } from 'zod';
 import { createUserBodySchema, type AdminUser } from '@shared/schemas/users';
+import { loadCommonPasswordCheck, refinePasswordAgainstAccount } from '@shared/schemas/password';
 import { Button } from '@/components/ui/button';
 import { CheckboxField, TextField } from '@/components/ui/field';
 import { FormError } from '@/components/ui/form-error';
@@ -10,6 +12,7 @@ import { applyServerErrors, fieldsOf } from '@/lib/form-errors';
 import { adminKeys, createUser } from '../api';
 
 type Values = z.input<typeof createUserBodySchema>;
+const formSchema = createUserBodySchema.superRefine(refinePasswordAgainstAccount);
 const userFields = fieldsOf<Values>('email', 'name', 'isAdmin', 'password');
 
 export function CreateUserForm({
@@ -27,9 +30,10 @@ export function CreateUserForm({
     setError,
     formState: { errors },
   } = useForm<Values, unknown, z.output<typeof createUserBodySchema>>({
-    resolver: zodResolver(createUserBodySchema),
+    resolver: zodResolver(formSchema),
     defaultValues: { email: '', name: '', isAdmin: false, password: undefined },
   });
+  useEffect(() => void loadCommonPasswordCheck(), []);
   const mutation = useMutation({
     mutationFn: createUser,
     onSuccess: async () => {

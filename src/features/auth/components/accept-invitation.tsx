@@ -1,3 +1,4 @@
+import { useEffect, useMemo } from 'react';
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useMutation, useSuspenseQuery } from '@tanstack/react-query';
@@ -8,6 +9,7 @@ import {
   type InvitationPreview,
   type Me,
 } from '@shared/schemas/auth';
+import { loadCommonPasswordCheck, refinePasswordAgainstAccount } from '@shared/schemas/password';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/field';
@@ -47,13 +49,18 @@ const newAccountFields = fieldsOf<z.input<typeof acceptNewAccountFormSchema>>('n
 
 function NewAccountForm({ token, invitation, onAccepted }: FormProps) {
   type Values = z.input<typeof acceptNewAccountFormSchema>;
+  const schema = useMemo(
+    () => acceptNewAccountFormSchema.superRefine((v, ctx) => refinePasswordAgainstAccount({ ...v, email: invitation.email }, ctx)),
+    [invitation.email],
+  );
+  useEffect(() => void loadCommonPasswordCheck(), []);
   const {
     register,
     handleSubmit,
     setError,
     formState: { errors },
   } = useForm<Values, unknown, z.output<typeof acceptNewAccountFormSchema>>({
-    resolver: zodResolver(acceptNewAccountFormSchema),
+    resolver: zodResolver(schema),
     defaultValues: { name: '', password: '', confirm: '' },
   });
   const mutation = useMutation({ mutationFn: acceptInvitation });

@@ -1,9 +1,11 @@
+import { useEffect } from 'react';
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useMutation } from '@tanstack/react-query';
 import { Link } from 'react-router-dom';
 import type { z } from 'zod';
 import { resetPasswordFormSchema } from '@shared/schemas/auth';
+import { loadCommonPasswordCheck } from '@shared/schemas/password';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/field';
@@ -27,6 +29,8 @@ export function ResetPasswordForm({ token, onDone }: { token: string; onDone: ()
     defaultValues: { password: '', confirm: '' },
   });
   const mutation = useMutation({ mutationFn: resetPassword });
+  // The common-password list is a lazy chunk: only the pages that set a password load it.
+  useEffect(() => void loadCommonPasswordCheck(), []);
 
   // A used, expired or unknown link cannot be fixed by retyping the password.
   const tokenProblem = isApiError(mutation.error) ? mutation.error.fields?.token : undefined;
