@@ -1,6 +1,4 @@
-import { createHash } from 'node:crypto';
 import type { RequestHandler } from 'express';
-import multer from 'multer';
 import { z } from 'zod';
 import { errorBodySchema } from '@shared/schemas/common';
 import {
@@ -15,8 +13,9 @@ import {
   tapeBodySchema,
 } from '@shared/schemas/records';
 import type { AppContext } from '../../context';
-import { AppError, badRequest } from '../../lib/errors';
+import { badRequest } from '../../lib/errors';
 import type { RouteDef } from '../../lib/route';
+import { receivedFiles, uploadMiddleware } from '../../lib/upload';
 import { wellParams } from '../wells/wells.router';
 import { createRecordsService, type UploadedFile, type UploadedFiles } from './records.service';
 
@@ -47,84 +46,23 @@ const previewMultipart = z.object({
   sampled: z.string().optional().describe('"file", "barometric" or both, comma-separated: which parts are only the start of a longer file'),
 });
 
-/**
- * Multer storage in memory that copies each file into one buffer sized from Content-Length as it
- * arrives, instead of collecting chunks and concatenating them at the end (which holds a large
- * file twice for a moment). Without a Content-Length it falls back to chunks.
- */
-function singleCopyStorage(): multer.StorageEngine {
-  const received = new WeakMap<object, number>();
-  return {
-    _handleFile(req, file, cb) {
-      const length = Number(req.headers['content-length']);
-      const before = received.get(req) ?? 0;
-      const room = Number.isFinite(length) && length > before ? length - before : 0;
-      let buffer = room > 0 ? Buffer.allocUnsafe(room) : null;
-      const chunks: Buffer[] = [];
-      let size = 0;
-      // The SHA-256 of the stored file, computed while it arrives rather than after.
-      const hash = createHash('sha256');
-      file.stream.on('data', (chunk: Buffer) => {
-        hash.update(chunk);
-        if (buffer && size + chunk.length <= buffer.length) chunk.copy(buffer, size);
-        else {
-          if (buffer) chunks.push(buffer.subarray(0, size));
-          buffer = null;
-          chunks.push(chunk);
-        }
-        size += chunk.length;
-      });
-      file.stream.on('error', (e: Error) => cb(e));
-      file.stream.on('end', () => {
-        received.set(req, before + size);
-        const bytes = buffer ? buffer.subarray(0, size) : Buffer.concat(chunks, size);
-        cb(null, { buffer: bytes, size, sha256: hash.digest('hex') } as Partial<Express.Multer.File>);
-      });
-    },
-    _removeFile(_req, file, cb) {
-      delete (file as { buffer?: Buffer }).buffer;
-      cb(null);
-    },
-  };
-}
-
-/** Multer in memory, bounded by RECORD_MAX_UPLOAD_MB; its refusals become 413 or 400 in the one error shape. */
+/** Logger files in memory, each at most RECORD_MAX_UPLOAD_MB; the settings and sample flags as text fields. */
 function uploads(limitMb: number): RequestHandler {
-  const limitBytes = Math.floor(limitMb * 1024 * 1024);
-  const upload = multer({
-    storage: singleCopyStorage(),
-    limits: { fileSize: limitBytes, files: 2, fields: 4, fieldSize: 1024 * 1024, parts: 6 },
-    defParamCharset: 'utf8',
-  }).fields([
-    { name: 'file', maxCount: 1 },
-    { name: 'barometric', maxCount: 1 },
-  ]);
-  return (req, res, next) => {
-    if (!req.is('multipart/form-data')) return next();
-    upload(req, res, (e: unknown) => {
-      if (e instanceof multer.MulterError) {
-        if (e.code === 'LIMIT_FILE_SIZE') {
-          const field = e.field ?? 'file';
-          return next(
-            new AppError('TOO_LARGE', `The ${field === 'barometric' ? 'barometric file' : 'logger file'} is larger than the upload limit of ${limitMb} MB (RECORD_MAX_UPLOAD_MB)`, 413, {
-              [field]: `Larger than the limit of ${limitMb} MB`,
-            }),
-          );
-        }
-        if (e.code === 'LIMIT_UNEXPECTED_FILE') {
-          return next(badRequest(`Unexpected file field "${e.field}"; send "file" and optionally "barometric"`, { [e.field ?? 'file']: 'Unexpected file field' }));
-        }
-        return next(badRequest(`The upload is malformed: ${e.message}`, { [e.field ?? 'file']: e.message }));
-      }
-      if (e) return next(badRequest('The upload is malformed: the multipart form could not be read', { file: 'Could not read the multipart form' }));
-      next();
-    });
-  };
+  return uploadMiddleware({
+    files: [
+      { name: 'file', label: 'logger file' },
+      { name: 'barometric', label: 'barometric file' },
+    ],
+    fields: ['settings', 'sampled'],
+    maxFileMb: limitMb,
+    limitName: 'RECORD_MAX_UPLOAD_MB',
+    target: { memory: true },
+  });
 }
 
 function filesOf(req: Parameters<RequestHandler>[0]): UploadedFiles {
-  const f = (req.files ?? {}) as Record<string, UploadedFile[] | undefined>;
-  return { file: f.file?.[0], barometric: f.barometric?.[0] };
+  const f = receivedFiles(req);
+  return { file: f.file as UploadedFile | undefined, barometric: f.barometric as UploadedFile | undefined };
 }
 
 /** Content-Disposition for a stored name: an ASCII fallback and the exact name in RFC 5987 form. */
