@@ -16,17 +16,20 @@ export const crashNetMiddleware: RequestHandler = (_req, res, next) => {
 
 const INTERNAL = { error: { code: 'INTERNAL', message: 'Something went wrong on the server; the change was not saved' } };
 
-/** Answers the request an escaped error belongs to; true when there was one. */
-export function answerEscapedError(): boolean {
+/** Answers the request an escaped error belongs to, if any, and says what it did. */
+export function answerEscapedError(): 'answered 500' | 'cut off' | 'already answered' | 'no request' {
   const res = requestContext.getStore()?.res;
-  if (!res) return false;
+  if (!res) return 'no request';
   if (!res.headersSent) {
     res.status(500).json(INTERNAL);
-  } else if (!res.writableEnded) {
+    return 'answered 500';
+  }
+  if (!res.writableEnded) {
     // Half a body is worse than none: cut it off so the client sees a failure, not a short answer.
     res.destroy();
+    return 'cut off';
   }
-  return true;
+  return 'already answered';
 }
 
 let installed: ((e: unknown) => void) | null = null;
@@ -39,15 +42,14 @@ let installed: ((e: unknown) => void) | null = null;
 export function installCrashNet(log: (msg: string, e: unknown) => void): void {
   if (installed) return;
   const handle = (kind: string) => (e: unknown) => {
-    const inRequest = (() => {
-      try {
-        return answerEscapedError();
-      } catch (answerError) {
-        log('crash net: could not answer the request', answerError);
-        return true;
-      }
-    })();
-    log(inRequest ? `${kind} in a request (answered 500; still serving)` : `${kind} outside any request (still serving)`, e);
+    let outcome: string;
+    try {
+      outcome = answerEscapedError();
+    } catch (answerError) {
+      outcome = 'could not answer';
+      log('crash net: could not answer the request', answerError);
+    }
+    log(outcome === 'no request' ? `${kind} outside any request (still serving)` : `${kind} in a request (${outcome}; still serving)`, e);
   };
   installed = handle('uncaught exception');
   process.on('uncaughtException', installed);
