@@ -127,7 +127,8 @@ export function createBasemapsService({ config, ds }: AppContext, log: (msg: str
     if (legacyRefusals.has(row.id)) return Promise.resolve();
     const src = path.join(dir, row.fileName);
     const fileName = `${row.id}${COPY_SUFFIX}`;
-    const part = path.join(incoming, `${fileName}.part`);
+    // Another server on the same database may be copying the same row: each writes its own part.
+    const part = path.join(incoming, `${fileName}.${randomUUID().slice(0, 8)}.part`);
     const p = (async () => {
       try {
         const copied = await copyInTurn(src, part);
@@ -157,6 +158,12 @@ export function createBasemapsService({ config, ds }: AppContext, log: (msg: str
   /** Started with the service, in the background: the server answers while older uploads are copied. */
   async function copyAllLegacy(): Promise<void> {
     try {
+      // Partial copies left by a server that was killed mid-copy.
+      const staleBefore = Date.now() - 2 * copyLimitsFor(config).timeMs - 60_000;
+      for (const name of fs.existsSync(incoming) ? fs.readdirSync(incoming) : []) {
+        const f = path.join(incoming, name);
+        if (name.endsWith('.part') && (fs.statSync(f, { throwIfNoEntry: false })?.mtimeMs ?? Infinity) < staleBefore) fs.rmSync(f, { force: true });
+      }
       const rows = await repo.find();
       for (const row of rows) if (!isCopy(row.fileName) && !closed) void copyLegacy(row);
     } catch (e) {
