@@ -39,8 +39,12 @@ export const configSchema = z.object({
   SMTP_USER: z.string().optional(),
   SMTP_PASSWORD: z.string().optional(),
   MAIL_FROM: z.string().default('Kfield <kfield@localhost>'),
-  /** Run the local fake SMTP service inside the app and keep what it receives in the outbox. */
+  /** Run the local fake SMTP service inside the app (what it receives is kept in local_mailbox). */
   FAKE_SMTP: bool.default(true),
+  /** The outbox retries a message the relay refused after this long, doubling each time (up to 15 min). */
+  MAIL_RETRY_BASE_SECONDS: z.coerce.number({ error: 'must be a number of seconds' }).positive().default(5),
+  /** Attempts before a message is marked undelivered (an Admin can retry it from the outbox). */
+  MAIL_MAX_ATTEMPTS: z.coerce.number().int().min(1).max(50).default(8),
   /** Unset: true, except with NODE_ENV=production, where demo data need an explicit DEMO_DATA=true. */
   DEMO_DATA: bool.optional(),
   CLIENT_DIST: z.string().default('dist/client'),

@@ -30,7 +30,7 @@ async function main() {
     password: config.SMTP_PASSWORD,
     from: config.MAIL_FROM,
   });
-  const kfield = createApp({ config, ds, mailer });
+  const kfield = createApp({ config, ds, mailer, mailOptions: { retryBaseMs: config.MAIL_RETRY_BASE_SECONDS * 1000, maxAttempts: config.MAIL_MAX_ATTEMPTS } });
   const server: Server = await new Promise((resolve, reject) => {
     const s = kfield.app.listen(config.PORT, config.HOST, () => resolve(s));
     s.once('error', reject);
@@ -47,7 +47,7 @@ async function main() {
     const force = setTimeout(() => process.exit(1), 10_000);
     force.unref();
     server.close(async () => {
-      kfield.close();
+      await kfield.close();
       mailer.close();
       await smtp?.close();
       await ds.destroy();

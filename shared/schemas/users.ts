@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { emailSchema, isoDateTime, newPasswordSchema, personNameSchema, siteRoleSchema } from './common';
+import { refinePasswordAgainstAccount } from './password';
 
 export const adminUserSchema = z.object({
   id: z.string(),
@@ -15,12 +16,14 @@ export type AdminUser = z.infer<typeof adminUserSchema>;
 export const adminUserListSchema = z.object({ users: z.array(adminUserSchema) });
 
 /** An Admin creates an account directly, with a first password to hand over, or sends a reset link. */
-export const createUserBodySchema = z.object({
-  email: emailSchema,
-  name: personNameSchema,
-  isAdmin: z.boolean().default(false),
-  password: newPasswordSchema.optional(),
-});
+export const createUserBodySchema = z
+  .object({
+    email: emailSchema,
+    name: personNameSchema,
+    isAdmin: z.boolean().default(false),
+    password: newPasswordSchema.optional(),
+  })
+  .superRefine(refinePasswordAgainstAccount);
 export type CreateUserBody = z.input<typeof createUserBodySchema>;
 
 export const userPatchSchema = z.object({

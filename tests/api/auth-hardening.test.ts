@@ -172,4 +172,28 @@ describe('new passwords', () => {
     expect(r.status).toBe(400);
     expect(r.body.error.fields.password).toMatch(/common and breached/);
   });
+
+  it("refuses the account's own name when an Admin creates an account", async () => {
+    const admin = await ts.as(demoEmail('Admin'));
+    const r = await admin.post('/api/admin/users', { email: 'named.pw@demo.kfield.example', name: 'Juniper Okonkwo', password: 'juniper-okonkwo-77' });
+    expect(r.status).toBe(400);
+    expect(r.body.error.fields.password).toMatch(/your name/);
+  });
+
+  it("refuses the account's own e-mail on reset", async () => {
+    const email = demoEmail('Analyst');
+    const token = await resetToken(email);
+    const c = await ts.client().refreshCsrf();
+    const r = await c.post('/api/auth/password/reset', { token, password: `${email}!` });
+    expect(r.status).toBe(400);
+    expect(r.body.error.fields.password).toMatch(/your e-mail/);
+  });
+
+  it("refuses the new account's name when accepting an invitation", async () => {
+    const token = await invitationToken('named.accept@demo.kfield.example');
+    const c = await ts.client().refreshCsrf();
+    const r = await c.post('/api/invitations/accept', { token, name: 'Odile Brennan', password: 'odile-brennan-1990' });
+    expect(r.status).toBe(400);
+    expect(r.body.error.fields.password).toMatch(/your name/);
+  });
 });

@@ -141,9 +141,9 @@ export function authRoutes(ctx: AppContext, pp: passport.PassportStatic, store: 
     {
       method: 'post', path: '/api/auth/password/forgot', tag: 'Sign-in', summary: 'E-mail a password reset link',
       body: forgotPasswordBodySchema, status: 202,
-      responses: { 202: { description: 'Sent if the address has an account', schema: okSchema }, 400: err('Malformed e-mail') },
+      responses: { 202: { description: 'Sent if the address has an account', schema: okSchema }, 400: err('Malformed e-mail'), 429: err('Too many requests from this address') },
       handler: async (req) => {
-        await auth.sendReset(req.body.email);
+        await auth.sendReset(req.body.email, { clientAddress: req.ip ?? null });
         return { ok: true };
       },
     },

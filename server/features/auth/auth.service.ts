@@ -1,7 +1,7 @@
 import { IsNull, MoreThan } from 'typeorm';
 import type { AppContext } from '../../context';
 import { badRequest } from '../../lib/errors';
-import { hashPassword } from '../../auth/password';
+import { hashPassword, refuseWeakPassword } from '../../auth/password';
 import { hashToken, newToken } from '../../auth/tokens';
 import { admitMailRequest, type MailRequester } from '../mail/mail-limits';
 import { passwordResetMail } from '../mail/templates';
@@ -42,6 +42,9 @@ export function createAuthService(ctx: AppContext, store: SqliteSessionStore) {
 
   async function resetPassword(token: string, password: string): Promise<void> {
     const tokenHash = hashToken(token);
+    const pending = await ds.getRepository(PasswordReset).findOne({ where: { tokenHash }, relations: { user: true } });
+    // The new password is checked against the account's own e-mail and name (OWASP ASVS 5.0 §6.2).
+    if (pending?.user && !pending.usedAt && pending.expiresAt.getTime() >= Date.now()) refuseWeakPassword(password, { email: pending.user.email, name: pending.user.name });
     const hash = await hashPassword(password, config.BCRYPT_COST);
     const userId = await ds.transaction(async (m) => {
       const repo = m.getRepository(PasswordReset);

@@ -5,6 +5,7 @@ import { invitationSchema, inviteBodySchema, memberPatchSchema, memberSchema, me
 import type { AppContext } from '../../context';
 import type { RouteDef } from '../../lib/route';
 import { signIn } from '../auth/auth.router';
+import { canCreateSites } from '../sites/sites.service';
 import { createMembersService } from './members.service';
 
 const err = (description: string) => ({ description, schema: errorBodySchema });
@@ -77,7 +78,7 @@ export function membersRoutes(ctx: AppContext): RouteDef[] {
       handler: async (req) => {
         const user = await svc.accept(req.body.token, req.body.name, req.body.password);
         const csrfToken = await signIn(req, user);
-        return { user: meSchema.parse(user), csrfToken };
+        return { user: meSchema.parse({ ...user, canCreateSites: await canCreateSites(ctx, user) }), csrfToken };
       },
     },
   ];

@@ -15,6 +15,7 @@ import { Site } from '../sites/site.entity';
 import { User } from '../users/user.entity';
 import { Invitation } from './invitation.entity';
 import { fieldErrors } from '../../lib/validate';
+import { accountPasswordProblems } from '@shared/schemas/password';
 
 const toMember = (m: Membership, showEmail: boolean): Member => ({
   userId: m.userId,
@@ -132,8 +133,8 @@ export function createMembersService({ ds, config, outbox }: AppContext) {
     const existing = await ds.getRepository(User).findOne({ where: { email: inv.email } });
     let passwordHash: string | null = null;
     if (existing) {
-      if (existing.disabled) throw new AppError('ACCOUNT_DISABLED', 'This account is disabled; ask your administrator', 403);
-      if (!(await verifyPassword(password, existing.passwordHash))) {
+      // A disabled account answers like a wrong password, after the same bcrypt work (no enumeration).
+      if (!(await verifyPassword(password, existing.passwordHash)) || existing.disabled) {
         throw badRequest('The password is not right for this account', { password: 'The password is not right for this account' });
       }
     } else {
@@ -141,6 +142,10 @@ export function createMembersService({ ds, config, outbox }: AppContext) {
       const fields: Record<string, string> = {};
       if (!parsed.name.success) fields.name = fieldErrors(parsed.name.error)._ ?? 'Name is required';
       if (!parsed.password.success) fields.password = fieldErrors(parsed.password.error)._ ?? 'Invalid password';
+      else {
+        const problems = accountPasswordProblems(password, { email: inv.email, name });
+        if (problems.length) fields.password = problems.join('. ');
+      }
       if (Object.keys(fields).length) throw badRequest(`The request body is invalid — ${Object.values(fields)[0]}`, fields);
       passwordHash = await hashPassword(password, config.BCRYPT_COST);
     }
