@@ -71,8 +71,14 @@ describe('foundation in the browser', () => {
 
     await page.goto(href!);
     await page.getByLabel('Your name').fill('Nell Hydro');
+    // A password made of the account's own name is refused with the reason beside the field (OWASP ASVS 5.0 §6.2).
     await page.getByLabel('Password', { exact: true }).fill('nell-hydro-password');
     await page.getByLabel('Repeat password').fill('nell-hydro-password');
+    await page.getByRole('button', { name: 'Create account and join' }).click();
+    await expect.poll(() => page.getByText(/your name/i).first().isVisible()).toBe(true);
+    await e2e.shot(page, 'accept-invitation-own-name');
+    await page.getByLabel('Password', { exact: true }).fill('tidewater-gauge-4471');
+    await page.getByLabel('Repeat password').fill('tidewater-gauge-4471');
     await e2e.shot(page, 'accept-invitation');
     await page.getByRole('button', { name: 'Create account and join' }).click();
     await page.waitForURL((u) => !u.pathname.startsWith('/invitations'));
@@ -97,10 +103,16 @@ describe('foundation in the browser', () => {
     await page.goto(href!);
     await page.getByLabel('New password', { exact: true }).fill('analyst-new-password');
     await page.getByLabel('Repeat new password').fill('analyst-new-password');
+    await page.getByRole('button', { name: 'Set new password' }).click();
+    // The account's own e-mail in the password is refused, with the reason shown.
+    await expect.poll(() => page.getByText(/your e-mail/i).first().isVisible()).toBe(true);
+    await e2e.shot(page, 'reset-password-own-email');
+    await page.getByLabel('New password', { exact: true }).fill('ridge-borehole-9051');
+    await page.getByLabel('Repeat new password').fill('ridge-borehole-9051');
     await e2e.shot(page, 'reset-password');
     await page.getByRole('button', { name: 'Set new password' }).click();
     await page.waitForURL((u) => u.pathname === '/sign-in' || u.pathname === '/');
-    await e2e.signIn(page, demoEmail('Analyst'), 'analyst-new-password');
+    await e2e.signIn(page, demoEmail('Analyst'), 'ridge-borehole-9051');
     await signOut(page);
 
     await page.goto(href!);

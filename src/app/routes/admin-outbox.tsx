@@ -12,7 +12,7 @@ export function AdminOutboxRoute() {
       <PageHeader
         title="Outbox"
         crumbs={[{ label: 'Admin' }, { label: 'Outbox' }]}
-        description="The e-mail Kfield has sent through its local mail service: invitations and password-reset links, newest first."
+        description="Every e-mail Kfield queues (invitations, password-reset links, fits to check and checked), newest first, with its delivery to the mail relay. A message the relay refuses is tried again later."
       />
       <QueryBoundary loadingLabel="Loading messages…" errorTitle="The outbox could not be loaded">
         <Outbox
