@@ -137,6 +137,29 @@ describe('foundation in the browser', () => {
     expect(overflow).toBeLessThanOrEqual(0);
   });
 
+  it("shows a Viewer the site's members by name and role only, and offers no New site to anyone but an Admin", async () => {
+    const page = await e2e.newPage();
+    await e2e.signIn(page, demoEmail('Viewer'));
+    expect(await page.getByRole('button', { name: 'New site' }).or(page.getByRole('link', { name: 'New site' })).count()).toBe(0);
+    await page.getByRole('link', { name: /Willow Bend former fuel depot/ }).first().click();
+    await page.waitForURL(/\/sites\/[0-9a-f-]{36}$/);
+    await page.getByRole('link', { name: /members/i }).first().click();
+    await page.waitForURL(/\/members$/);
+    await expect.poll(() => page.getByRole('table', { name: 'Site members' }).getByText('Mara Lindqvist').isVisible()).toBe(true);
+    await e2e.shot(page, 'site-members-viewer-1280');
+    expect(await page.getByRole('table', { name: 'Site members' }).innerText()).not.toMatch(/@/);
+    expect(await page.getByRole('columnheader', { name: 'E-mail' }).count()).toBe(0);
+    await signOut(page);
+
+    await e2e.signIn(page, demoEmail('Lead'));
+    await page.getByRole('heading', { level: 1 }).first().waitFor();
+    expect(await page.getByRole('button', { name: 'New site' }).or(page.getByRole('link', { name: 'New site' })).count()).toBe(0);
+    await signOut(page);
+    await e2e.signIn(page, demoEmail('Admin'));
+    await expect.poll(() => page.getByRole('button', { name: 'New site' }).or(page.getByRole('link', { name: 'New site' })).first().isVisible()).toBe(true);
+    await signOut(page);
+  });
+
   it('asks nothing of any origin but its own', () => {
     const foreign = e2e.requests.filter((u) => !u.startsWith(e2e.ts.baseUrl) && !u.startsWith('data:') && !u.startsWith('blob:'));
     expect(e2e.requests.length).toBeGreaterThan(10);
