@@ -320,7 +320,7 @@ beforeAll(async () => {
   server = await startServerProcess({
     dbPath: path.join(dir, 'kfield.sqlite'),
     // Failed sign-ins are part of the input; the limiter would otherwise answer 429 to most of them.
-    env: { LOGIN_MAX_FAILURES: '1000000', LOGIN_MAX_FAILURES_PER_ADDRESS: '1000000' },
+    env: { LOGIN_MAX_FAILURES: '1000000', LOGIN_MAX_FAILURES_PER_ACCOUNT_ADDRESS: '1000000', LOGIN_SLOWDOWN_AFTER_PER_ADDRESS: '1000000' },
   });
   const doc = (await send(`${server.baseUrl}/api/openapi.json`)).json<{ paths: Record<string, Record<string, Operation>> }>();
   routes = Object.entries(doc.paths).flatMap(([p, ops]) => Object.entries(ops).map(([m, op]) => ({ method: m.toUpperCase(), path: p, key: `${m.toUpperCase()} ${p}`, op })));
