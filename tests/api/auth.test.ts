@@ -104,6 +104,8 @@ describe('CSRF', () => {
     const c = await ts.as(demoEmail('Lead'));
     const r = await c.agent.post('/api/sites').set('x-csrf-token', 'forged-token').send({ name: 'X', epsgCode: 32632, displayUnits: 'SI' });
     expect(r.status).toBe(403);
+    // The code, too: a Lead creating a site is refused anyway (SITE_CREATOR_REQUIRED) once past CSRF.
+    expect(r.body.error.code).toBe('CSRF_INVALID');
   });
 
   it('refuses sign-in without the token', async () => {

@@ -61,8 +61,12 @@ describe('invitations', () => {
   });
 
   it('adds an existing account that proves its password', async () => {
+    // A site the demo Viewer leads: only Admins create sites by default, so the Admin creates it and makes the Viewer its Lead.
+    const admin = await ts.as(demoEmail('Admin'));
+    const own = (await admin.post('/api/sites', { name: 'Viewer own', epsgCode: 4326, displayUnits: 'SI' }).expect(201)).body;
+    const viewerId = (await ts.ds.getRepository(User).findOneByOrFail({ email: demoEmail('Viewer') })).id;
+    await ts.ds.getRepository(Membership).insert({ siteId: own.id, userId: viewerId, role: 'Lead' });
     const outsiderLead = await ts.as(demoEmail('Viewer'));
-    const own = (await outsiderLead.post('/api/sites', { name: 'Viewer own', epsgCode: 4326, displayUnits: 'SI' }).expect(201)).body;
     await outsiderLead.post(`/api/sites/${own.id}/invitations`, { email: demoEmail('Analyst'), role: 'Analyst' }).expect(201);
     const token = linkToken((await ts.outbox(demoEmail('Analyst')))[0].text, 'invitation');
     const anon = await ts.client().refreshCsrf();

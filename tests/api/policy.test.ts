@@ -3,6 +3,7 @@ import type { Router } from 'express';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { policyTable } from '../../server/auth/policy';
 import { routeKey } from '../../server/lib/route';
+import { Membership } from '../../server/features/sites/membership.entity';
 import { Well } from '../../server/features/wells/well.entity';
 import { insertSyntheticRecord } from '../support/synthetic-record';
 import { ApiClient, demoEmail, startTestServer, type TestServer } from '../support/test-server';
@@ -26,12 +27,14 @@ async function clientFor(p: Principal): Promise<ApiClient> {
 }
 
 beforeAll(async () => {
-  ts = await startTestServer({ LOGIN_MAX_FAILURES: '1000', LOGIN_MAX_FAILURES_PER_ADDRESS: '1000' });
-  // The outsider leads a site of their own and belongs to no other.
+  ts = await startTestServer({ LOGIN_MAX_FAILURES: '1000', LOGIN_MAX_FAILURES_PER_ACCOUNT_ADDRESS: '1000', LOGIN_SLOWDOWN_AFTER_PER_ADDRESS: '1000' });
+  // The outsider leads a site of their own and belongs to no other. Only Admins create sites
+  // (SITE_CREATORS=admins, the default): the Admin creates it and makes the outsider its Lead.
   const admin = await ts.as(demoEmail('Admin'));
-  await admin.post('/api/admin/users', { email: OUTSIDER, name: 'Olive Outsider', password: 'outsider-password-1' }).expect(201);
+  const outsiderId = (await admin.post('/api/admin/users', { email: OUTSIDER, name: 'Olive Outsider', password: 'outsider-password-1' }).expect(201)).body.id;
+  const another = (await admin.post('/api/sites', { name: 'Another site', epsgCode: 32632, displayUnits: 'SI' }).expect(201)).body;
+  await ts.ds.getRepository(Membership).insert({ siteId: another.id, userId: outsiderId, role: 'Lead' });
   const outsider = await ts.as(OUTSIDER, 'outsider-password-1');
-  await outsider.post('/api/sites', { name: 'Another site', epsgCode: 32632, displayUnits: 'SI' }).expect(201);
   for (const p of PRINCIPALS) clients.set(p, p === 'outsider' ? outsider : await clientFor(p));
   const wells = ts.ds.getRepository(Well);
   const { id, createdAt: _c, updatedAt: _u, ...template } = await wells.findOneByOrFail({ siteId: ts.demoSiteId });

@@ -3,15 +3,21 @@ import path from 'node:path';
 import proj4 from 'proj4';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DEMO_WELL_ROWS } from '../../server/db/seed/demo-wells';
+import { Membership } from '../../server/features/sites/membership.entity';
+import { User } from '../../server/features/users/user.entity';
 import { Well } from '../../server/features/wells/well.entity';
 import type { ApiClient } from '../support/test-server';
 import { demoEmail, startTestServer, type TestServer } from '../support/test-server';
 
 let ts: TestServer;
 let analyst: ApiClient;
+let admin: ApiClient;
+let analystId = '';
 beforeAll(async () => {
   ts = await startTestServer();
   analyst = await ts.as(demoEmail('Analyst'));
+  admin = await ts.as(demoEmail('Admin'));
+  analystId = (await ts.ds.getRepository(User).findOneByOrFail({ email: demoEmail('Analyst') })).id;
 });
 afterAll(async () => ts.close());
 
@@ -41,11 +47,12 @@ const wellBody = (over: Record<string, unknown> = {}) => ({
 });
 
 let siteCount = 0;
-/** A fresh site led by the demo Analyst. */
+/** A fresh site led by the demo Analyst (only Admins create sites by default: the Admin creates it, the Analyst is made its Lead). */
 async function newSite(over: Record<string, unknown> = {}): Promise<string> {
   siteCount++;
-  const r = await analyst.post('/api/sites', { name: `Wells test ${siteCount}`, epsgCode: 32632, displayUnits: 'SI', hydroUnits: ['Sand', 'Silt', 'Sand and gravel', 'Buried channel gravel'], ...over });
+  const r = await admin.post('/api/sites', { name: `Wells test ${siteCount}`, epsgCode: 32632, displayUnits: 'SI', hydroUnits: ['Sand', 'Silt', 'Sand and gravel', 'Buried channel gravel'], ...over });
   expect(r.status).toBe(201);
+  await ts.ds.getRepository(Membership).insert({ siteId: r.body.id, userId: analystId, role: 'Lead' });
   return r.body.id;
 }
 

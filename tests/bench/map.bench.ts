@@ -1,6 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import { startTestServer } from '../support/test-server';
 import { demoEmail } from '../support/test-server';
+import { Membership } from '../../server/features/sites/membership.entity';
 import { Well } from '../../server/features/wells/well.entity';
 
 const WELLS = 20_000;
@@ -11,8 +12,12 @@ const TARGET_MS = 150;
 export async function run(): Promise<void> {
   const ts = await startTestServer({ DEMO_DATA: 'true' });
   try {
+    // Only Admins create sites by default: the Admin creates it and makes the demo Lead its Lead.
+    const admin = await ts.as(demoEmail('Admin'));
+    const site = (await admin.post('/api/sites', { name: 'Bench network', epsgCode: 32632, displayUnits: 'SI' }).expect(201)).body;
+    const leadId: string = (await ts.ds.query(`SELECT id FROM users WHERE email = ?`, [demoEmail('Lead')]))[0].id;
+    await ts.ds.getRepository(Membership).insert({ siteId: site.id, userId: leadId, role: 'Lead' });
     const lead = await ts.as(demoEmail('Lead'));
-    const site = (await lead.post('/api/sites', { name: 'Bench network', epsgCode: 32632, displayUnits: 'SI' }).expect(201)).body;
     const template = await ts.ds.getRepository(Well).findOneByOrFail({ siteId: ts.demoSiteId });
     const analystId: string = (await ts.ds.query(`SELECT id FROM users WHERE email = ?`, [demoEmail('Analyst')]))[0].id;
     const recordId: string | undefined = (await ts.ds.query(`SELECT id FROM records LIMIT 1`))[0]?.id;

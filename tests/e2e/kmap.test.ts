@@ -4,6 +4,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { Membership } from '../../server/features/sites/membership.entity';
 import { Well } from '../../server/features/wells/well.entity';
 import { insertSyntheticRecord } from '../support/synthetic-record';
 import { demoEmail } from '../support/test-server';
@@ -354,9 +355,12 @@ describe('the K map in the browser', () => {
 
   it('stays responsive with 20,000 wells while panning and zooming', { timeout: 600_000 }, async () => {
     const WELLS = 20_000;
-    const lead = await e2e.ts.as(demoEmail('Lead'));
-    const site = (await lead.post('/api/sites', { name: 'Big network (generated)', epsgCode: 32632, displayUnits: 'SI' }).expect(201)).body;
+    // Only Admins create sites by default: the Admin creates it and makes the demo Lead its Lead.
+    const admin = await e2e.ts.as(demoEmail('Admin'));
+    const site = (await admin.post('/api/sites', { name: 'Big network (generated)', epsgCode: 32632, displayUnits: 'SI' }).expect(201)).body;
     const ds = e2e.ts.ds;
+    const leadId: string = (await ds.query(`SELECT id FROM users WHERE email = ?`, [demoEmail('Lead')]))[0].id;
+    await ds.getRepository(Membership).insert({ siteId: site.id, userId: leadId, role: 'Lead' });
     const template = await ds.getRepository(Well).findOneByOrFail({ siteId: e2e.ts.demoSiteId });
     const analystId: string = (await ds.query(`SELECT id FROM users WHERE email = ?`, [demoEmail('Analyst')]))[0].id;
     const recordId: string = (await ds.query(`SELECT id FROM records LIMIT 1`))[0].id;

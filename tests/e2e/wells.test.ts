@@ -2,6 +2,8 @@ import fs from 'node:fs';
 import path from 'node:path';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { Membership } from '../../server/features/sites/membership.entity';
+import { User } from '../../server/features/users/user.entity';
 import { demoEmail } from '../support/test-server';
 import { startE2E, tmpDir, type E2E } from './driver';
 
@@ -11,9 +13,10 @@ let e2e: E2E;
 let siteId = '';
 beforeAll(async () => {
   e2e = await startE2E();
-  // A new, empty US-units site led by the demo Analyst, for the import.
-  const analyst = await e2e.ts.as(demoEmail('Analyst'));
-  const r = await analyst.post('/api/sites', {
+  // A new, empty US-units site led by the demo Analyst, for the import. Only Admins create sites by
+  // default: the Admin creates it and makes the Analyst its Lead.
+  const admin = await e2e.ts.as(demoEmail('Admin'));
+  const r = await admin.post('/api/sites', {
     name: 'Willow Bend import check (fictional)',
     epsgCode: 32632,
     displayUnits: 'US',
@@ -21,6 +24,8 @@ beforeAll(async () => {
   });
   expect(r.status).toBe(201);
   siteId = r.body.id;
+  const analystId = (await e2e.ts.ds.getRepository(User).findOneByOrFail({ email: demoEmail('Analyst') })).id;
+  await e2e.ts.ds.getRepository(Membership).insert({ siteId, userId: analystId, role: 'Lead' });
 });
 afterAll(async () => e2e?.close());
 
