@@ -1,3 +1,4 @@
+import fs from 'node:fs';
 import http from 'node:http';
 import path from 'node:path';
 import { HttpSession, rssMb, signedIn, startServerProcess, tempDir } from '../reliability/support';
@@ -92,5 +93,6 @@ export async function run(): Promise<void> {
   } finally {
     agent.destroy();
     await server.stop();
+    fs.rmSync(dir, { recursive: true, force: true });
   }
 }

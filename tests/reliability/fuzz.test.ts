@@ -1,3 +1,4 @@
+import fs from 'node:fs';
 import path from 'node:path';
 import Database from 'better-sqlite3';
 import fc from 'fast-check';
@@ -311,12 +312,12 @@ function supply(route: Route, pools: Pools, seed: number) {
 // ---- the run ----------------------------------------------------------------------------------
 
 let server: ServerProcess;
+const dir = tempDir('kfield-fuzz-');
 let routes: Route[];
 let pools: Pools;
 const sessions = new Map<Role, HttpSession>();
 
 beforeAll(async () => {
-  const dir = tempDir('kfield-fuzz-');
   server = await startServerProcess({
     dbPath: path.join(dir, 'kfield.sqlite'),
     // Failed sign-ins are part of the input; the limiter would otherwise answer 429 to most of them.
@@ -368,7 +369,10 @@ beforeAll(async () => {
   };
 }, 180_000);
 
-afterAll(async () => server?.stop());
+afterAll(async () => {
+  await server?.stop();
+  fs.rmSync(dir, { recursive: true, force: true });
+});
 
 async function fire(req: FuzzRequest): Promise<{ status: number; message: string }> {
   const session = FRESH_SESSION.has(req.route.key) ? await new HttpSession(server.baseUrl).refreshCsrf() : sessions.get(req.role)!;

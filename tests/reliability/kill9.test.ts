@@ -1,3 +1,4 @@
+import fs from 'node:fs';
 import path from 'node:path';
 import Database from 'better-sqlite3';
 import { afterAll, describe, expect, it } from 'vitest';
@@ -77,11 +78,15 @@ function checkDatabase(dbPath: string, acks: RoundAcks) {
 }
 
 let server: ServerProcess | undefined;
-afterAll(async () => server?.stop());
+const dir = tempDir('kfield-kill9-');
+afterAll(async () => {
+  await server?.stop();
+  fs.rmSync(dir, { recursive: true, force: true });
+});
 
 describe('kill -9 during a million-row upload with fits being created and submitted', () => {
   it(`loses no write answered 2xx and keeps the database intact across ${ROUNDS} kills`, async () => {
-    const dbPath = path.join(tempDir('kfield-kill9-'), 'kfield.sqlite');
+    const dbPath = path.join(dir, 'kfield.sqlite');
     const csv = loggerCsv(ROWS);
     const upload = multipart([
       { name: 'settings', value: JSON.stringify(LOGGER_SETTINGS) },
