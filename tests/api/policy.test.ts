@@ -23,7 +23,7 @@ const spareRecordIds: string[] = [];
 
 async function clientFor(p: Principal): Promise<ApiClient> {
   if (p === 'anonymous') return ts.client().refreshCsrf();
-  return p === 'outsider' ? ts.as(OUTSIDER, 'outsider-password-1') : ts.as(demoEmail(p));
+  return p === 'outsider' ? ts.as(OUTSIDER, 'policy-walk-secret-1') : ts.as(demoEmail(p));
 }
 
 beforeAll(async () => {
@@ -31,10 +31,10 @@ beforeAll(async () => {
   // The outsider leads a site of their own and belongs to no other. Only Admins create sites
   // (SITE_CREATORS=admins, the default): the Admin creates it and makes the outsider its Lead.
   const admin = await ts.as(demoEmail('Admin'));
-  const outsiderId = (await admin.post('/api/admin/users', { email: OUTSIDER, name: 'Olive Outsider', password: 'outsider-password-1' }).expect(201)).body.id;
+  const outsiderId = (await admin.post('/api/admin/users', { email: OUTSIDER, name: 'Olive Outsider', password: 'policy-walk-secret-1' }).expect(201)).body.id;
   const another = (await admin.post('/api/sites', { name: 'Another site', epsgCode: 32632, displayUnits: 'SI' }).expect(201)).body;
   await ts.ds.getRepository(Membership).insert({ siteId: another.id, userId: outsiderId, role: 'Lead' });
-  const outsider = await ts.as(OUTSIDER, 'outsider-password-1');
+  const outsider = await ts.as(OUTSIDER, 'policy-walk-secret-1');
   for (const p of PRINCIPALS) clients.set(p, p === 'outsider' ? outsider : await clientFor(p));
   const wells = ts.ds.getRepository(Well);
   const { id, createdAt: _c, updatedAt: _u, ...template } = await wells.findOneByOrFail({ siteId: ts.demoSiteId });
