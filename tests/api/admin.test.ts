@@ -43,6 +43,17 @@ describe('admin: users', () => {
     await ts.as(demoEmail('Viewer'));
   });
 
+  it('answers an empty change to an account with the account as it is (not 500)', async () => {
+    const admin = await ts.as(demoEmail('Admin'));
+    const { users } = (await admin.get('/api/admin/users').expect(200)).body as { users: { id: string; email: string; name: string }[] };
+    const viewer = users.find((u) => u.email === demoEmail('Viewer'))!;
+    for (const body of [{}, { unknown: 1 }]) {
+      const r = await admin.patch(`/api/admin/users/${viewer.id}`, body);
+      expect(r.status).toBe(200);
+      expect(r.body.name).toBe(viewer.name);
+    }
+  });
+
   it('will not let an Admin lock themselves out', async () => {
     const admin = await ts.as(demoEmail('Admin'));
     const me = (await admin.get('/api/auth/me')).body.user;

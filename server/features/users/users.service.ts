@@ -67,7 +67,8 @@ export function createUsersService({ ds, config }: AppContext, store: SqliteSess
     if (patch.isAdmin === false && u.isAdmin && (await users.count({ where: { isAdmin: true, disabled: false } })) <= 1) {
       throw conflict('LAST_ADMIN', 'The instance needs at least one Admin', { isAdmin: 'The last Admin cannot be demoted' });
     }
-    await users.update({ id }, patch);
+    // An empty change (no field given) is answered with the account as it is.
+    if (Object.values(patch).some((v) => v !== undefined)) await users.update({ id }, patch);
     if (patch.disabled) await store.destroyForUser(id);
     return get(id);
   }
