@@ -2,7 +2,6 @@ import type { RequestHandler, Request } from 'express';
 import { SITE_ROLES, type SiteRole } from '@shared/schemas/common';
 import { forbidden, notFound, unauthorized } from '../lib/errors';
 import type { AppContext } from '../context';
-import { Membership } from '../features/sites/membership.entity';
 import { Site } from '../features/sites/site.entity';
 import { Well } from '../features/wells/well.entity';
 
@@ -21,10 +20,10 @@ export interface Policy {
   middleware: (ctx: AppContext) => RequestHandler;
 }
 
-const bySiteParam: SiteLocator = async (req, ctx) => {
+/** The site in req.params.siteId; its existence is settled by the membership look-up below. */
+const bySiteParam: SiteLocator = async (req) => {
   const siteId = String(req.params.siteId ?? '');
-  if (!/^[0-9a-f-]{36}$/i.test(siteId)) return null;
-  return (await ctx.ds.getRepository(Site).exists({ where: { id: siteId } })) ? siteId : null;
+  return /^[0-9a-f-]{36}$/i.test(siteId) ? siteId : null;
 };
 
 /** A well's site, from req.params.wellId; null (so 404) when the well does not exist. */
@@ -153,9 +152,11 @@ function middlewareFor(rule: PolicyRule): (ctx: AppContext) => RequestHandler {
     }
     const siteId = await rule.locate(req, ctx);
     if (!siteId) throw notFound('The site');
-    const membership = await ctx.ds.getRepository(Membership).findOne({ where: { siteId, userId: user.id } });
-    if (!membership && !user.isAdmin) throw notFound('The site');
-    const role = membership?.role ?? null;
+    // One indexed read on every site route: a membership row implies the site exists (foreign key);
+    // only an Admin who is not a member needs the site looked up.
+    const rows: { role: SiteRole }[] = await ctx.ds.query('SELECT "role" FROM "memberships" WHERE "siteId" = ? AND "userId" = ?', [siteId, user.id]);
+    const role = rows[0]?.role ?? null;
+    if (!role && !(user.isAdmin && (await ctx.ds.getRepository(Site).exists({ where: { id: siteId } })))) throw notFound('The site');
     if (!user.isAdmin && !rule.roles.includes(role as SiteRole)) {
       throw forbidden(`This needs the ${rule.roles.join(' or ')} role on this site; you are ${role}`, 'ROLE_REQUIRED');
     }
