@@ -10,7 +10,9 @@ const TIME_BUDGET_MS = 240_000;
 const CONCURRENCY = 8;
 const HEALTH_EVERY = 200;
 const REQUEST_TIMEOUT_MS = 30_000;
-const SEED = Number(process.env.FUZZ_SEED ?? Date.now() % 1_000_000);
+// A fixed seed by default, so that CI runs the same 10,000 inputs each time and a failure can be
+// replayed; FUZZ_SEED=<n> (or FUZZ_SEED=random) explores other inputs.
+const SEED = process.env.FUZZ_SEED === 'random' ? Date.now() % 1_000_000 : Number(process.env.FUZZ_SEED ?? 20261203);
 
 /*
  * Left out, because they would make the rest of the run meaningless (not because they are safe):
