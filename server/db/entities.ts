@@ -3,6 +3,8 @@ import { PasswordReset } from '../features/auth/password-reset.entity';
 import { Basemap } from '../features/basemaps/basemap.entity';
 import { FitEventEntity } from '../features/fits/fit-event.entity';
 import { FitEntity } from '../features/fits/fit.entity';
+import { CaptureSketchEntity } from '../features/ksurface/capture-sketch.entity';
+import { OutlineEntity } from '../features/ksurface/outline.entity';
 import { MapVersion } from '../features/map/map-version.entity';
 import { LocalMail } from '../features/mail/local-mail.entity';
 import { MailRequest } from '../features/mail/mail-request.entity';
@@ -16,4 +18,4 @@ import { Site } from '../features/sites/site.entity';
 import { User } from '../features/users/user.entity';
 import { Well } from '../features/wells/well.entity';
 
-export const entities = [User, SessionRow, Site, Membership, Invitation, PasswordReset, OutboxMessage, LocalMail, MailRequest, Well, RecordEntity, RecordFile, RecordSeries, FitEntity, FitEventEntity, MapVersion, Basemap];
+export const entities = [User, SessionRow, Site, Membership, Invitation, PasswordReset, OutboxMessage, LocalMail, MailRequest, Well, RecordEntity, RecordFile, RecordSeries, FitEntity, FitEventEntity, MapVersion, Basemap, OutlineEntity, CaptureSketchEntity];
