@@ -4,6 +4,7 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { inferSchema, initParser } from 'udsv';
+import { LOGGER_SETTINGS, loggerCsv } from '../reliability/support';
 import { DEMO_PASSWORD, demoEmail, freePort } from '../support/test-server';
 
 const ROWS = 1_000_000;
@@ -14,42 +15,8 @@ const TARGET_IMPORT_MS = 3000;
 const TARGET_RSS_MB = 500;
 const TARGET_SERIES_MS = 100;
 
-/** An invented 10 Hz vented-logger export: preamble, header, units, timestamp, elapsed, level, temperature. */
-function loggerCsv(): Buffer {
-  const lines = [
-    'Invented benchmark export - no real instrument, site or data',
-    'Instrument,Fictional vented level logger (invented)',
-    'Sample interval,0.1 s',
-    '',
-    'Timestamp,Elapsed,Level,Temperature',
-    ',s,m,degC',
-  ];
-  const start = Date.UTC(2025, 4, 20, 8, 0, 0);
-  let second = -1;
-  let prefix = '';
-  for (let i = 0; i < ROWS; i++) {
-    const ms = start + i * 100;
-    const s = Math.floor(ms / 1000);
-    if (s !== second) {
-      second = s;
-      const iso = new Date(s * 1000).toISOString();
-      prefix = `${iso.slice(0, 10)} ${iso.slice(11, 19)}`;
-    }
-    const t = i / 10;
-    const head = t < 60 ? 4.2 : 4.2 - 0.75 * Math.exp(-(t - 60) / 2500);
-    lines.push(`${prefix}.${i % 10},${t.toFixed(1)},${(head + ((i * 7919) % 13) * 1e-5).toFixed(5)},9.${i % 10}`);
-  }
-  return Buffer.from(`${lines.join('\n')}\n`, 'utf8');
-}
-
-const SETTINGS = {
-  testType: 'slug-out',
-  reference: 'vented',
-  layout: { delimiter: 'comma', headerLine: 5, unitsLine: 6, firstDataLine: 7, lastDataLine: null, decimalComma: false },
-  mapping: { time: { columns: [0], format: 'timestamp', timestampLayout: 'iso', timeZone: 'UTC' }, valueColumn: 2 },
-  valueUnit: 'm',
-  notes: 'Invented benchmark record',
-};
+// The invented 10 Hz vented-logger export and its upload settings, shared with the reliability tests.
+const SETTINGS = { ...LOGGER_SETTINGS, notes: 'Invented benchmark record' };
 
 function median(xs: number[]): number {
   const s = [...xs].sort((a, b) => a - b);
@@ -158,7 +125,7 @@ function udsvParse(csv: string): number {
 }
 
 export async function run(): Promise<void> {
-  const file = loggerCsv();
+  const file = loggerCsv(ROWS);
   const text = file.toString('utf8');
   // The data after the preamble, header and units lines: what uDSV is given.
   let p = 0;
