@@ -24,6 +24,7 @@ import type { Mailer } from './features/mail/mailer';
 import { createMailWorker, type MailWorker, type MailWorkerOptions } from './features/mail/outbox';
 import { fitsRoutes } from './features/fits/fits.router';
 import { mapRoutes } from './features/map/map.router';
+import { outlinesRoutes } from './features/ksurface/outlines.router';
 import { membersRoutes } from './features/members/members.router';
 import { recordsRoutes } from './features/records/records.router';
 import { sitesRoutes } from './features/sites/sites.router';
@@ -143,6 +144,7 @@ export function createApp({ config, ds, mailer, mailOptions, log = (m, e) => con
     ...recordsRoutes(ctx),
     ...fitsRoutes(ctx),
     ...mapRoutes(ctx),
+    ...outlinesRoutes(ctx),
     ...basemapApiRoutes(ctx, basemaps),
     ...adminRoutes(ctx, store, auth.sendReset, mail),
   ];

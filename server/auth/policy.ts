@@ -118,6 +118,21 @@ export const policyTable: Record<string, PolicyRule> = {
 
   'GET /api/sites/:siteId/map/wells': site(anyRole),
 
+  'GET /api/sites/:siteId/outlines': site(anyRole),
+  'POST /api/sites/:siteId/outlines': site(['Lead', 'Analyst']),
+  'GET /api/sites/:siteId/outlines/:outlineId': site(anyRole),
+  'GET /api/sites/:siteId/outlines/:outlineId.geojson': site(anyRole),
+  'PATCH /api/sites/:siteId/outlines/:outlineId': site(['Lead', 'Analyst']),
+  'DELETE /api/sites/:siteId/outlines/:outlineId': site(['Lead', 'Analyst']),
+  'GET /api/sites/:siteId/k-surface': site(anyRole),
+  'GET /api/sites/:siteId/k-surface/cross-validation': site(anyRole),
+  'GET /api/sites/:siteId/k-at': site(anyRole),
+  'GET /api/sites/:siteId/capture-sketches': site(anyRole),
+  'POST /api/sites/:siteId/capture-sketches': site(['Lead', 'Analyst']),
+  'GET /api/sites/:siteId/capture-sketches.geojson': site(anyRole),
+  'GET /api/sites/:siteId/capture-sketches/:sketchId': site(anyRole),
+  'DELETE /api/sites/:siteId/capture-sketches/:sketchId': site(['Lead', 'Analyst']),
+
   'GET /api/admin/users': ADMIN,
   'POST /api/admin/users': ADMIN,
   'PATCH /api/admin/users/:userId': ADMIN,

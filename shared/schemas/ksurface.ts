@@ -36,8 +36,11 @@ export const outlineSchema = z.object({
   name: z.string(),
   /** WGS84. */
   geometry: outlineGeometrySchema,
+  /** Geodesic area, m². */
   areaM2: z.number(),
+  /** The name of the person who made it. */
   createdBy: z.string(),
+  createdById: z.string(),
   createdAt: isoDateTime,
   updatedAt: isoDateTime,
 });
@@ -84,6 +87,8 @@ export const kSurfaceSchema = z.object({
   /** Geometric mean of K over the cells inside the outline, m/s. */
   geometricMeanK: z.number().nullable(),
   settings: z.object({ power: z.number(), neighbours: z.number().nullable(), searchRadiusM: z.number().nullable(), outlineId: z.string().nullable() }),
+  /** The product's cautions (shared/cautions.ts), to show beside the surface. */
+  cautions: z.array(z.string()),
 });
 export type KSurface = z.infer<typeof kSurfaceSchema>;
 
@@ -95,8 +100,9 @@ export const crossValidationSchema = z.object({
   byPower: z.array(z.object({ power: z.number(), rmseLog10: z.number(), meanErrorLog10: z.number() })),
   suggestedPower: z.number(),
   wells: z.array(z.object({ wellId: z.string(), name: z.string(), observedLog10K: z.number(), predictedLog10K: z.number(), errorLog10: z.number() })),
-  /** Places inside the outline where a new test would tell the most, best first. */
+  /** Places inside the outline where a new test would tell the most, best first; x/y in the site's system. */
   nextTestSpots: z.array(z.object({ x: z.number(), y: z.number(), lon: z.number(), lat: z.number(), score: z.number(), nearestWellM: z.number() })),
+  cautions: z.array(z.string()),
 });
 export type CrossValidation = z.infer<typeof crossValidationSchema>;
 
@@ -177,8 +183,11 @@ export const captureSketchSchema = z.object({
     envelope: polygonGeometrySchema,
     cooperJacob: z.object({ drawdownM: z.number(), u: z.number(), valid: z.boolean(), note: z.string() }),
   }),
+  /** The name of the person who made it. */
   createdBy: z.string(),
+  createdById: z.string(),
   createdAt: isoDateTime,
+  cautions: z.array(z.string()),
 });
 export type CaptureSketch = z.infer<typeof captureSketchSchema>;
 export const captureSketchListSchema = z.object({ sketches: z.array(captureSketchSchema) });
