@@ -17,6 +17,9 @@ export interface CrossValidationResult {
   wells: CrossValidationWell[];
 }
 
+/** Wells whose spread of log10 K scores a candidate spot (Kfield's choice). */
+export const SPREAD_NEIGHBOURS = 6;
+
 export interface TestSpot {
   x: number;
   y: number;
@@ -74,16 +77,18 @@ export function crossValidate(points: IdwPoint[], o: IdwOptions, powers: number[
 /**
  * Places inside the mask where a new test would tell the most — Kfield's own heuristic, not a published
  * method: each cell scores (distance to the nearest well, m) × (1 + standard deviation of log10 K of its
- * `o.neighbours ?? 6` nearest wells), so spots far from any well and among wells that disagree come
- * first. Spots are taken greedily, best first, each at least max(2 cells, ½·√(mask area / count)) from
- * those already taken, so they spread over the outline instead of crowding one corner. Throws for no well.
+ * 6 nearest wells), so spots far from any well and among wells that disagree come first. Spots are
+ * taken greedily, best first, each at least max(2 cells, ½·√(mask area / count)) from those already
+ * taken, so they spread over the outline instead of crowding one corner. Throws for no well.
+ * The surface options are accepted for the caller's convenience but do not change the score: a surface
+ * of one nearest neighbour, or a short search radius, should not blind the ranking to disagreement.
  */
-export function nextTestSpots(points: IdwPoint[], grid: GridSpec, mask: Uint8Array, count = 5, o?: IdwOptions): TestSpot[] {
+export function nextTestSpots(points: IdwPoint[], grid: GridSpec, mask: Uint8Array, count = 5, _o?: IdwOptions): TestSpot[] {
   const { minX, minY, cellSizeM: cell, cols, rows } = grid;
   if (mask.length !== cols * rows) throw new Error(`The mask has ${mask.length} cells; the grid has ${cols * rows}`);
   if (!points.length) throw new Error('Next test spots need at least one well with K');
   const n = points.length;
-  const k = Math.min(n, o?.neighbours ?? 6);
+  const k = Math.min(n, SPREAD_NEIGHBOURS);
   const xs = Float64Array.from(points, (p) => p.x);
   const ys = Float64Array.from(points, (p) => p.y);
   const zs = Float64Array.from(points, (p) => p.z);

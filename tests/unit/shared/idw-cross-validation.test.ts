@@ -117,3 +117,12 @@ describe('next test spots (Kfield heuristic)', () => {
     expect(() => nextTestSpots(wells(5, 6), grid, new Uint8Array(4), 5)).toThrow(/mask/);
   });
 });
+
+describe('next test spots and the surface options', () => {
+  it('rank the same whatever the surface’s neighbours and radius', () => {
+    const grid: GridSpec = { minX: 0, minY: 0, cellSizeM: 20, cols: 50, rows: 50 };
+    const mask = new Uint8Array(2500).fill(1);
+    const pts = wells(15, 8);
+    expect(nextTestSpots(pts, grid, mask, 4, { neighbours: 1, searchRadiusM: 10 })).toEqual(nextTestSpots(pts, grid, mask, 4));
+  });
+});
