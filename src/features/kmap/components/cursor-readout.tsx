@@ -11,7 +11,20 @@ function formatLatLon(lat: number, lon: number): string {
 const grouped = new Intl.NumberFormat('en', { minimumFractionDigits: 1, maximumFractionDigits: 1 });
 
 /** The pointer's position in the site's coordinate reference system (proj4) and in latitude/longitude. */
-export function CursorReadout({ store, epsgCode, crsName, crsUnit }: { store: CursorStore; epsgCode: number; crsName: string; crsUnit: string | null }) {
+export function CursorReadout({
+  store,
+  epsgCode,
+  crsName,
+  crsUnit,
+  readK,
+}: {
+  store: CursorStore;
+  epsgCode: number;
+  crsName: string;
+  crsUnit: string | null;
+  /** The K surface's value at a point, written out; null where the surface has no value. Unset: no surface shown. */
+  readK?: ((lon: number, lat: number) => string | null) | null;
+}) {
   const cursor = useCursor(store);
   const [projection, setProjection] = useState<{ code: number; name: string | null } | null>(null);
 
@@ -50,6 +63,14 @@ export function CursorReadout({ store, epsgCode, crsName, crsUnit }: { store: Cu
       <dd className="tabular-nums" data-testid="cursor-latlon">
         {cursor ? formatLatLon(cursor.lat, cursor.lon) : 'Point at (or tap) the map'}
       </dd>
+      {readK ? (
+        <>
+          <dt className="font-medium text-slate-600">K surface (estimate)</dt>
+          <dd className="tabular-nums" data-testid="cursor-k">
+            {cursor ? (readK(cursor.lon, cursor.lat) ?? 'outside the surface') : 'Point at (or tap) the map'}
+          </dd>
+        </>
+      ) : null}
     </dl>
   );
 }

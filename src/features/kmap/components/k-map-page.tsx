@@ -1,11 +1,11 @@
-import { useCallback, useMemo, useRef, useState } from 'react';
+import { useCallback, useLayoutEffect, useMemo, useRef, useState } from 'react';
+import { Link } from 'react-router-dom';
 import type { MapRef } from 'react-map-gl/maplibre';
 import type { StyleSpecification } from 'maplibre-gl';
 import type { MapWells } from '@shared/schemas/map';
 import type { Site } from '@shared/schemas/sites';
 import { CAUTIONS } from '@shared/cautions';
 import { Button } from '@/components/ui/button';
-import { Card, CardBody, CardHeader } from '@/components/ui/card';
 import { useToast } from '@/components/ui/toast';
 import { describeError } from '@/lib/errors';
 import { formatDateTime } from '@/lib/format';
@@ -24,6 +24,13 @@ import { KMapFilters } from './k-map-filters';
 import { MapOverlay } from './map-overlay';
 import { WellFinder } from './well-finder';
 import { WellPanel } from './well-panel';
+import { Panel } from './panel';
+import { useWorkspace } from '../surface/use-workspace';
+import { SurfaceOverlays } from '../surface/overlays';
+import { SurfacePanel } from '../surface/surface-panel';
+import { CrossValidationPanel } from '../surface/cross-validation-panel';
+import { OutlinesPanel } from '../surface/outlines-panel';
+import { SketchPanel } from '../surface/sketch-panel';
 
 const count = (n: number) => n.toLocaleString('en');
 
@@ -44,9 +51,31 @@ interface Props {
   wells: MapWells;
   crsUnit: string | null;
   basemaps: BasemapOption[];
+  /** Leads and Analysts (and Admins) change outlines and sketches; Viewers and Checkers read them. */
+  canEdit: boolean;
 }
 
-export function KMapPage({ site, wells, crsUnit, basemaps }: Props) {
+/** The top of the workspace on a wide screen: just under the app's top bar. */
+function useWorkspaceTop(): number | null {
+  const [top, setTop] = useState<number | null>(null);
+  useLayoutEffect(() => {
+    const wide = window.matchMedia('(min-width: 1024px)');
+    const measure = () => {
+      const bar = document.querySelector('body header');
+      setTop(wide.matches ? Math.max(0, Math.round(bar ? bar.getBoundingClientRect().bottom + window.scrollY : 0)) : null);
+    };
+    measure();
+    wide.addEventListener('change', measure);
+    window.addEventListener('resize', measure);
+    return () => {
+      wide.removeEventListener('change', measure);
+      window.removeEventListener('resize', measure);
+    };
+  }, []);
+  return top;
+}
+
+export function KMapPage({ site, wells, crsUnit, basemaps, canEdit }: Props) {
   const toast = useToast();
   const mapRef = useRef<MapRef>(null);
   const cursor = useMemo(() => createCursorStore(), []);
@@ -95,6 +124,8 @@ export function KMapPage({ site, wells, crsUnit, basemaps }: Props) {
     }
     return counts;
   }, [selectedShown, byId, bins.length]);
+  const top = useWorkspaceTop();
+  const ws = useWorkspace({ site, all, shown, filter, crsUnit, scale, mapRef, kUnit });
   const focused = focusedId !== null && byId.has(focusedId) ? byId.get(focusedId)! : selectedShown.length > 0 ? byId.get(selectedShown[selectedShown.length - 1])! : null;
 
   const select = useCallback((ids: string[], mode: SelectMode) => {
@@ -159,136 +190,221 @@ export function KMapPage({ site, wells, crsUnit, basemaps }: Props) {
     }
   };
 
+  const panelGap = 'space-y-2 lg:pointer-events-none lg:absolute lg:overflow-y-auto lg:overscroll-contain lg:pb-2';
   return (
-    <div className="space-y-4">
-      <div className="flex flex-wrap items-start justify-between gap-x-4 gap-y-2">
-        <p className="min-w-0 flex-1 basis-80 text-sm text-slate-600">
-          Each well is coloured by its Well K, the geometric mean of its Checked fits. Click a well for what lies behind its colour; shift-click or
-          shift-drag to select several.
-        </p>
+    <div
+      className="flex flex-col lg:fixed lg:inset-x-0 lg:bottom-0 lg:z-10 lg:bg-white"
+      style={top !== null ? { top } : undefined}
+      data-testid="kmap-workspace"
+    >
+      <div className="flex flex-wrap items-center justify-between gap-x-4 gap-y-2 pb-3 lg:border-b lg:border-slate-200 lg:px-4 lg:py-1.5">
+        <div className="flex min-w-0 flex-wrap items-baseline gap-x-3 gap-y-1">
+          <nav aria-label="Breadcrumb">
+            <ol className="flex flex-wrap items-center gap-1 text-sm text-slate-500">
+              <li>
+                <Link to="/" className="rounded hover:text-accent-700 hover:underline">
+                  Sites
+                </Link>
+              </li>
+              <li aria-hidden="true">/</li>
+              <li>
+                <Link to={`/sites/${site.id}`} className="rounded hover:text-accent-700 hover:underline">
+                  {site.name}
+                </Link>
+              </li>
+              <li aria-hidden="true">/</li>
+            </ol>
+          </nav>
+          <h1 className="text-xl font-semibold tracking-tight text-slate-900">K map</h1>
+          <p className="hidden text-xs text-slate-600 xl:block">Wells coloured by Well K; click one for what lies behind its colour, shift-drag to select several.</p>
+        </div>
         <Button variant="secondary" size="sm" pending={exporting} onClick={() => void exportView()}>
           Export view as PNG
         </Button>
       </div>
-      <div className="grid gap-4 lg:grid-cols-[minmax(0,1fr)_22rem]">
-        <Card aria-labelledby="kmap-map-title" className="overflow-hidden lg:sticky lg:top-4 lg:self-start">
-          <h2 id="kmap-map-title" className="sr-only">
-            Map of the wells
-          </h2>
-          <div className="relative h-[62vh] min-h-80 lg:h-[640px]" data-testid="kmap-map">
-            <KMap
-              mapRef={mapRef}
-              mapStyle={basemap.styleUrl}
-              data={data}
-              colour={colour}
-              initialBounds={siteBounds}
-              hoveredBin={hoveredBin}
-              selectedIds={selectedShown}
-              onSelect={select}
-              visibility={visibility}
-              displayUnits={site.displayUnits}
-              cursor={cursor}
-              hasGlyphs={hasGlyphs}
-              onStyleReady={(next) => setStyle((c) => (c.hasGlyphs === next.hasGlyphs && c.attribution === next.attribution ? c : next))}
-              labelMinZoom={namesFrom}
-              sizes={sizes}
-            />
-            <MapOverlay
-              onFitToSite={fitToSite}
-              canFit={siteBounds !== null}
-              visibility={visibility}
-              onVisibilityChange={setVisibility}
-              hasLabels={hasGlyphs}
-              basemaps={basemapChoices}
-              basemapId={basemap.id}
-              onBasemapChange={setBasemapId}
-            />
-          </div>
-          <div className="space-y-1.5 border-t border-slate-200 px-4 py-2">
-            <CursorReadout store={cursor} epsgCode={site.epsgCode} crsName={site.crsName} crsUnit={crsUnit} />
+
+      <div className="relative flex min-h-0 flex-1 flex-col lg:block">
+        <h2 id="kmap-map-title" className="sr-only">
+          Map of the wells
+        </h2>
+        <div
+          className="relative h-[58vh] min-h-80 overflow-hidden rounded-lg ring-1 ring-slate-200 lg:absolute lg:inset-0 lg:h-auto lg:rounded-none lg:ring-0 lg:[&_.maplibregl-ctrl-top-right]:right-[23rem] lg:[&_.maplibregl-ctrl-bottom-left]:left-[21rem]"
+          data-testid="kmap-map"
+          aria-labelledby="kmap-map-title"
+          role="region"
+        >
+          <KMap
+            mapRef={mapRef}
+            mapStyle={basemap.styleUrl}
+            data={data}
+            colour={colour}
+            initialBounds={siteBounds}
+            hoveredBin={hoveredBin}
+            selectedIds={selectedShown}
+            onSelect={select}
+            visibility={visibility}
+            displayUnits={site.displayUnits}
+            cursor={cursor}
+            hasGlyphs={hasGlyphs}
+            onStyleReady={(next) => setStyle((c) => (c.hasGlyphs === next.hasGlyphs && c.attribution === next.attribution ? c : next))}
+            labelMinZoom={namesFrom}
+            sizes={sizes}
+            overlays={<SurfaceOverlays ws={ws} hasGlyphs={hasGlyphs} siteBounds={siteBounds} />}
+            onPlace={ws.placing ? ws.placeTrial : null}
+            selectionPaused={ws.draw.phase.kind !== 'off'}
+          />
+          <MapOverlay
+            onFitToSite={fitToSite}
+            canFit={siteBounds !== null}
+            visibility={visibility}
+            onVisibilityChange={setVisibility}
+            hasLabels={hasGlyphs}
+            basemaps={basemapChoices}
+            basemapId={basemap.id}
+            onBasemapChange={setBasemapId}
+          />
+        </div>
+
+        {/* On a phone the panels lie in a sheet under the map; on a wide screen they float over it. */}
+        <div className="relative z-10 -mx-4 -mt-3 rounded-t-2xl bg-slate-100 px-3 pt-2 pb-4 shadow-[0_-2px_8px_rgba(15,23,42,0.12)] lg:contents" data-testid="kmap-sheet">
+          <div aria-hidden="true" className="mx-auto mb-2 h-1 w-10 rounded-full bg-slate-300 lg:hidden" />
+          <div className="mb-2 space-y-1 rounded-lg bg-white px-3 py-2 text-xs ring-1 ring-slate-200 lg:absolute lg:bottom-2 lg:left-[21.5rem] lg:right-[23.5rem] lg:z-10 lg:mb-0 lg:bg-white/95 lg:shadow">
+            <CursorReadout store={cursor} epsgCode={site.epsgCode} crsName={site.crsName} crsUnit={crsUnit} readK={ws.readK} />
             {style.attribution ? (
               <p className="text-xs text-slate-500" data-testid="kmap-attribution">
                 Basemap: {style.attribution}
               </p>
             ) : null}
           </div>
-        </Card>
-
-        <div className="space-y-4">
-          <Card aria-labelledby="kmap-legend-title">
-            <h2 id="kmap-legend-title" className="sr-only">
-              Legend and histogram
-            </h2>
-            <CardBody>
-              <KLegend
-                domain={domain}
-                scale={scale}
-                bins={bins}
-                selectedPerBin={selectedPerBin}
-                hoveredBin={hoveredBin}
-                onHoverBin={setHoveredBin}
-                onSelectBin={selectBin}
-                unit={kUnit}
-                onUnitChange={setKUnit}
-                unanalysedCount={unanalysedCount}
-              />
-            </CardBody>
-          </Card>
-
-          <Card aria-labelledby="kmap-selection-title">
-            <CardHeader
-              titleId="kmap-selection-title"
-              title={selectedShown.length > 1 ? `${selectedShown.length} wells selected` : 'Well'}
-              actions={
-                selectedShown.length > 0 ? (
-                  <Button variant="ghost" size="sm" onClick={() => select([], 'replace')}>
-                    Clear selection
-                  </Button>
-                ) : null
-              }
-            />
-            <CardBody className="space-y-4">
-              <WellFinder wells={shown} onPick={pickWell} />
-              {selectedShown.length > 1 ? (
-                <ul aria-label="Selected wells" className="flex max-h-28 flex-wrap gap-1.5 overflow-auto">
-                  {selectedShown.map((id) => (
-                    <li key={id}>
-                      <button
-                        type="button"
-                        className={`rounded px-2 py-0.5 text-xs ring-1 ${id === focused?.id ? 'bg-slate-900 text-white ring-slate-900' : 'bg-white text-slate-800 ring-slate-300 hover:bg-slate-50'}`}
-                        onClick={() => setFocusedId(id)}
-                      >
-                        {byId.get(id)?.name}
-                      </button>
-                    </li>
+          <div className="flex flex-col gap-2 lg:contents">
+            <div className={`${panelGap} lg:top-3 lg:right-3 lg:bottom-2 lg:w-[22rem]`} data-testid="kmap-panels-right">
+              <Panel title="Legend" titleId="kmap-legend-title">
+                <KLegend
+                  domain={domain}
+                  scale={scale}
+                  bins={bins}
+                  selectedPerBin={selectedPerBin}
+                  hoveredBin={hoveredBin}
+                  onHoverBin={setHoveredBin}
+                  onSelectBin={selectBin}
+                  unit={kUnit}
+                  onUnitChange={setKUnit}
+                  unanalysedCount={unanalysedCount}
+                />
+              </Panel>
+              <Panel
+                titleId="kmap-selection-title"
+                title={selectedShown.length > 1 ? `${selectedShown.length} wells selected` : 'Well'}
+                actions={
+                  selectedShown.length > 0 ? (
+                    <Button variant="ghost" size="sm" onClick={() => select([], 'replace')}>
+                      Clear selection
+                    </Button>
+                  ) : null
+                }
+              >
+                <div className="space-y-4">
+                  <WellFinder wells={shown} onPick={pickWell} />
+                  {selectedShown.length > 1 ? (
+                    <ul aria-label="Selected wells" className="flex max-h-28 flex-wrap gap-1.5 overflow-auto">
+                      {selectedShown.map((id) => (
+                        <li key={id}>
+                          <button
+                            type="button"
+                            className={`rounded px-2 py-0.5 text-xs ring-1 ${id === focused?.id ? 'bg-slate-900 text-white ring-slate-900' : 'bg-white text-slate-800 ring-slate-300 hover:bg-slate-50'}`}
+                            onClick={() => setFocusedId(id)}
+                          >
+                            {byId.get(id)?.name}
+                          </button>
+                        </li>
+                      ))}
+                    </ul>
+                  ) : null}
+                  {focused ? (
+                    <WellPanel key={focused.id} siteId={site.id} well={focused} units={site.displayUnits} kUnit={kUnit} />
+                  ) : (
+                    <p className="text-sm text-slate-600">Click a well on the map, or find one by name, to see its Well K, screen, construction and fits.</p>
+                  )}
+                </div>
+              </Panel>
+              <Panel title="Filters" titleId="kmap-filters-title">
+                <KMapFilters filter={filter} onChange={setFilter} units={units} displayUnits={site.displayUnits} shown={shown.length} total={all.length} />
+              </Panel>
+              <Panel title="Cautions" titleId="kmap-cautions-title" defaultOpen={false} testId="kmap-cautions">
+                <div className="space-y-1.5 text-xs leading-relaxed text-amber-950">
+                  <p className="font-medium">What a colour on this map does and does not say:</p>
+                  {CAUTIONS.map((c) => (
+                    <p key={c}>{c}</p>
                   ))}
-                </ul>
-              ) : null}
-              {focused ? (
-                <WellPanel key={focused.id} siteId={site.id} well={focused} units={site.displayUnits} kUnit={kUnit} />
-              ) : (
-                <p className="text-sm text-slate-600">Click a well on the map, or find one by name, to see its Well K, screen, construction and fits.</p>
-              )}
-            </CardBody>
-          </Card>
+                </div>
+              </Panel>
+            </div>
 
-          <Card aria-labelledby="kmap-filters-title">
-            <CardHeader titleId="kmap-filters-title" title="Filters" />
-            <CardBody>
-              <KMapFilters filter={filter} onChange={setFilter} units={units} displayUnits={site.displayUnits} shown={shown.length} total={all.length} />
-            </CardBody>
-          </Card>
+            <div className={`${panelGap} lg:top-14 lg:left-3 lg:bottom-2 lg:w-80`} data-testid="kmap-panels-left">
+              <Panel title="K surface" titleId="ksurface-title" defaultOpen={false} testId="ksurface-section">
+                <SurfacePanel
+                  settings={ws.effectiveSettings}
+                  onChange={ws.setSettings}
+                  outlines={ws.outlines}
+                  state={ws.surface}
+                  wellsUsed={ws.wellsUsed}
+                  stats={ws.stats}
+                  zones={ws.zones}
+                  onExportZones={ws.exportZones}
+                  kUnit={kUnit}
+                  displayUnits={site.displayUnits}
+                  gridLabel={ws.gridCrs?.label ?? null}
+                  renderMs={ws.renderMs}
+                />
+              </Panel>
+              <Panel title="Cross-validation" titleId="kcv-title" defaultOpen={false} testId="kcv-section">
+                <CrossValidationPanel
+                  cv={ws.cv.data}
+                  pending={ws.cv.isFetching}
+                  error={ws.cv.error ? describeError(ws.cv.error) : null}
+                  power={ws.effectiveSettings.power}
+                  onUsePower={(power) => ws.setSettings({ ...ws.effectiveSettings, power })}
+                  kUnit={kUnit}
+                  displayUnits={site.displayUnits}
+                  epsgCode={site.epsgCode}
+                />
+              </Panel>
+              <Panel title="Outlines" titleId="koutlines-title" defaultOpen={false} testId="koutlines-section">
+                <OutlinesPanel
+                  siteId={site.id}
+                  siteCrsLabel={`EPSG:${site.epsgCode}`}
+                  outlines={ws.outlines}
+                  canEdit={canEdit}
+                  displayUnits={site.displayUnits}
+                  draw={ws.draw}
+                  chosenId={ws.effectiveSettings.outlineId}
+                  onChoose={(outlineId) => ws.setSettings({ ...ws.effectiveSettings, outlineId })}
+                />
+              </Panel>
+              <Panel title="Capture sketches" titleId="ksketch-title" defaultOpen={false} testId="ksketch-section">
+                <SketchPanel
+                  siteId={site.id}
+                  canEdit={canEdit}
+                  epsgCode={site.epsgCode}
+                  placing={ws.placing}
+                  onPlacingChange={ws.setPlacing}
+                  trial={ws.trial}
+                  onTrialChange={ws.setTrial}
+                  fromSite={ws.fromSite}
+                  surface={ws.surfaceQuery}
+                  sketches={ws.sketches}
+                  hidden={ws.hiddenSketches}
+                  onToggleHidden={ws.toggleSketch}
+                  wells={shown}
+                  kUnit={kUnit}
+                  displayUnits={site.displayUnits}
+                />
+              </Panel>
+            </div>
+          </div>
         </div>
       </div>
-
-      <details className="rounded-lg bg-amber-50 px-4 py-3 text-sm text-amber-950 ring-1 ring-amber-200" data-testid="kmap-cautions">
-        <summary className="cursor-pointer font-medium">Cautions: what a colour on this map does and does not say</summary>
-        <div className="mt-2 space-y-1.5 leading-relaxed">
-          {CAUTIONS.map((c) => (
-            <p key={c}>{c}</p>
-          ))}
-        </div>
-      </details>
     </div>
   );
 }
+

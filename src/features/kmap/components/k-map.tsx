@@ -1,4 +1,4 @@
-import { useCallback, useEffect, useMemo, useRef, useState, type Ref } from 'react';
+import { useCallback, useEffect, useMemo, useRef, useState, type ReactNode, type Ref } from 'react';
 import MapView, { Layer, NavigationControl, ScaleControl, Source, useMap, type MapLayerMouseEvent, type MapRef } from 'react-map-gl/maplibre';
 import type { ExpressionSpecification, MapMouseEvent, StyleSpecification } from 'maplibre-gl';
 import type { FeatureCollection, Point } from 'geojson';
@@ -38,6 +38,12 @@ export interface KMapProps {
   labelMinZoom: number;
   /** Circle sizes for the network's density. */
   sizes: WellSizes;
+  /** Sources and layers drawn under the wells (surface, outlines, sketches): added after the wells, placed below them. */
+  overlays?: ReactNode;
+  /** When set, a click places a point (a trial well) instead of selecting wells. */
+  onPlace?: ((lon: number, lat: number) => void) | null;
+  /** While drawing an outline a click belongs to the drawing, not to the selection. */
+  selectionPaused?: boolean;
 }
 
 export const FIT_PADDING = 48;
@@ -49,6 +55,7 @@ const visible = (on: boolean) => (on ? 'visible' : 'none') as 'visible' | 'none'
 export function KMap(props: KMapProps) {
   const { mapRef, mapStyle, data, colour, initialBounds, hoveredBin, selectedIds, onSelect, visibility, displayUnits, cursor, onStyleReady, hasGlyphs, labelMinZoom, sizes } =
     props;
+  const { overlays, onPlace = null, selectionPaused = false } = props;
   // data-map-state says when the map has finished drawing (browser tests wait for "idle").
   const [state, setState] = useState<'loading' | 'idle'>('loading');
 
@@ -56,13 +63,18 @@ export function KMap(props: KMapProps) {
     (e: MapLayerMouseEvent) => {
       // A tap has no hover: the read-out follows the tap.
       cursor.set({ lon: e.lngLat.lng, lat: e.lngLat.lat });
+      if (onPlace) {
+        onPlace(e.lngLat.lng, e.lngLat.lat);
+        return;
+      }
+      if (selectionPaused) return;
       // Every well under the pointer: nested wells (a shallow and a deep screen) share one spot.
       const ids = [...new Set((e.features ?? []).map((f) => String(f.properties.id)))];
       const shift = e.originalEvent.shiftKey;
       if (ids.length === 0 && shift) return;
       onSelect(ids, shift ? 'toggle' : 'replace');
     },
-    [onSelect, cursor],
+    [onSelect, cursor, onPlace, selectionPaused],
   );
 
   // Fresh layer objects only when their content changes: react-map-gl then leaves the map alone.
@@ -72,7 +84,7 @@ export function KMap(props: KMapProps) {
   const highlight = useMemo(() => binHighlightLayer(hoveredBin, sizes), [hoveredBin, sizes]);
 
   return (
-    <div className="absolute inset-0" data-map-state={state} data-testid="kmap-view">
+    <div className={onPlace ? 'absolute inset-0 [&_canvas]:cursor-crosshair' : 'absolute inset-0'} data-map-state={state} data-testid="kmap-view">
       <MapView
         ref={mapRef}
         mapLib={maplibre}
@@ -116,6 +128,7 @@ export function KMap(props: KMapProps) {
             />
           ) : null}
         </Source>
+        {overlays}
         <PointerTracker cursor={cursor} />
         <BoxSelect onSelect={(ids) => onSelect(ids, 'add')} />
       </MapView>

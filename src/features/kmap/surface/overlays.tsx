@@ -1,0 +1,102 @@
+import { useMemo } from 'react';
+import { Layer, Source } from 'react-map-gl/maplibre';
+import type { Feature, FeatureCollection, Geometry } from 'geojson';
+import { LAYER_IDS } from '../layers';
+import {
+  cvRingLayer,
+  envelopeFillLayer,
+  envelopeLineLayer,
+  outlineFillLayer,
+  outlineLabelLayer,
+  outlineLineLayer,
+  sketchPointsLayer,
+  SOURCES,
+  spotCircleLayer,
+  spotLabelLayer,
+  surfaceLayer,
+  trialLayer,
+  zoneCasingLayer,
+  zoneLineLayer,
+} from './layers';
+import type { Workspace } from './use-workspace';
+
+/** A transparent pixel: the image source exists from the start, so the layers' order never changes. */
+const BLANK = 'data:image/png;base64,iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAQAAAC1HAwCAAAAC0lEQVR42mNkYAAAAAYAAjCB0C8AAAAASUVORK5CYII=';
+const EMPTY: FeatureCollection = { type: 'FeatureCollection', features: [] };
+const BELOW_WELLS = LAYER_IDS.selectedHalo;
+const visible = (on: boolean) => ({ visibility: (on ? 'visible' : 'none') as 'visible' | 'none' });
+
+/** The workspace's sources and layers, all under the wells and in a fixed order. */
+export function SurfaceOverlays({ ws, hasGlyphs, siteBounds }: { ws: Workspace; hasGlyphs: boolean; siteBounds: [number, number, number, number] | null }) {
+  const [w, s, e, n] = siteBounds ?? [0, 0, 1, 1];
+  const blankCorners = useMemo(
+    () =>
+      [
+        [w, n],
+        [e, n],
+        [e, s],
+        [w, s],
+      ] as [[number, number], [number, number], [number, number], [number, number]],
+    [w, s, e, n],
+  );
+  const outlines = useMemo<FeatureCollection>(
+    () => ({
+      type: 'FeatureCollection',
+      features: ws.outlines.map((o) => ({ type: 'Feature', id: o.id, geometry: o.geometry as Geometry, properties: { name: o.name, chosen: ws.effectiveSettings.show && o.id === ws.chosenOutlineId } })),
+    }),
+    [ws.outlines, ws.chosenOutlineId, ws.effectiveSettings.show],
+  );
+  const editingId = ws.draw.phase.kind === 'editing' ? ws.draw.phase.outlineId : null;
+  const outlinesShown = useMemo<FeatureCollection>(
+    () => (editingId ? { ...outlines, features: outlines.features.filter((f) => f.id !== editingId) } : outlines),
+    [outlines, editingId],
+  );
+  const sketches = useMemo<FeatureCollection>(() => {
+    const features: Feature[] = [];
+    for (const k of ws.sketches) {
+      if (ws.hiddenSketches.has(k.id)) continue;
+      features.push({ type: 'Feature', geometry: k.results.envelope as Geometry, properties: { kind: 'envelope', name: k.name } });
+      features.push({ type: 'Feature', geometry: { type: 'Point', coordinates: [k.results.stagnationPoint.lon, k.results.stagnationPoint.lat] }, properties: { kind: 'stagnation', name: k.name } });
+      features.push({ type: 'Feature', geometry: { type: 'Point', coordinates: [k.lon, k.lat] }, properties: { kind: 'well', name: k.name } });
+    }
+    return { type: 'FeatureCollection', features };
+  }, [ws.sketches, ws.hiddenSketches]);
+  const trial = useMemo<FeatureCollection>(
+    () => (ws.trial ? { type: 'FeatureCollection', features: [{ type: 'Feature', geometry: { type: 'Point', coordinates: [ws.trial.lon, ws.trial.lat] }, properties: {} }] } : EMPTY),
+    [ws.trial],
+  );
+  const image = ws.image;
+  const surfacePaint = useMemo(() => ({ ...surfaceLayer.paint, 'raster-opacity': ws.opacity }), [ws.opacity]);
+
+  return (
+    <>
+      <Source id={SOURCES.surface} type="image" url={image?.url ?? BLANK} coordinates={image?.corners ?? blankCorners}>
+        <Layer {...surfaceLayer} paint={surfacePaint} layout={visible(image !== null)} beforeId={BELOW_WELLS} />
+      </Source>
+      <Source id={SOURCES.outlines} type="geojson" data={outlinesShown}>
+        <Layer {...outlineFillLayer} beforeId={BELOW_WELLS} />
+        <Layer {...outlineLineLayer} beforeId={BELOW_WELLS} />
+        {hasGlyphs ? <Layer {...outlineLabelLayer} beforeId={BELOW_WELLS} /> : null}
+      </Source>
+      <Source id={SOURCES.zones} type="geojson" data={ws.zones ?? EMPTY}>
+        <Layer {...zoneCasingLayer} beforeId={BELOW_WELLS} />
+        <Layer {...zoneLineLayer} beforeId={BELOW_WELLS} />
+      </Source>
+      <Source id={SOURCES.sketches} type="geojson" data={sketches}>
+        <Layer {...envelopeFillLayer} beforeId={BELOW_WELLS} />
+        <Layer {...envelopeLineLayer} beforeId={BELOW_WELLS} />
+        <Layer {...sketchPointsLayer} beforeId={BELOW_WELLS} />
+      </Source>
+      <Source id={SOURCES.trial} type="geojson" data={trial}>
+        <Layer {...trialLayer} beforeId={BELOW_WELLS} />
+      </Source>
+      <Source id={SOURCES.cvRings} type="geojson" data={ws.cvRings}>
+        <Layer {...cvRingLayer} beforeId={BELOW_WELLS} />
+      </Source>
+      <Source id={SOURCES.spots} type="geojson" data={ws.spots}>
+        <Layer {...spotCircleLayer} beforeId={BELOW_WELLS} />
+        {hasGlyphs ? <Layer {...spotLabelLayer} beforeId={BELOW_WELLS} /> : null}
+      </Source>
+    </>
+  );
+}
