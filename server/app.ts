@@ -24,7 +24,9 @@ import type { Mailer } from './features/mail/mailer';
 import { createMailWorker, type MailWorker, type MailWorkerOptions } from './features/mail/outbox';
 import { fitsRoutes } from './features/fits/fits.router';
 import { mapRoutes } from './features/map/map.router';
+import { kSurfaceRoutes } from './features/ksurface/ksurface.router';
 import { outlinesRoutes } from './features/ksurface/outlines.router';
+import { sketchesRoutes } from './features/ksurface/sketches.router';
 import { membersRoutes } from './features/members/members.router';
 import { recordsRoutes } from './features/records/records.router';
 import { sitesRoutes } from './features/sites/sites.router';
@@ -145,6 +147,8 @@ export function createApp({ config, ds, mailer, mailOptions, log = (m, e) => con
     ...fitsRoutes(ctx),
     ...mapRoutes(ctx),
     ...outlinesRoutes(ctx),
+    ...kSurfaceRoutes(ctx),
+    ...sketchesRoutes(ctx),
     ...basemapApiRoutes(ctx, basemaps),
     ...adminRoutes(ctx, store, auth.sendReset, mail),
   ];

@@ -287,33 +287,54 @@ function loggerRecord(plan: Plan, well: Well, t0: number, jitter: (a: number) =>
 
 /** Adds the invented records to the demo site's wells (inside the demo seed's transaction). */
 export async function seedDemoRecords(m: EntityManager, site: Site): Promise<number> {
+  return (await storePlans(m, site, PLANS, 0)).length;
+}
+
+/**
+ * Re-tests along the invented buried channel, recorded after the first round of fits, so that the
+ * K surface has Checked values along it (demo-surface.ts fits and checks them).
+ */
+const CHANNEL_PLANS: Plan[] = [
+  { well: 'MW-10', kind: 'vented', testType: 'slug-in', start: [2025, 5, 3, 9, 10], h0M: 0.5, crew: 'P. Varga (invented)' },
+  { well: 'MW-12', kind: 'vented', testType: 'slug-in', start: [2025, 5, 3, 10, 20], h0M: 0.45, crew: 'P. Varga (invented)' },
+  { well: 'MW-13', kind: 'vented', testType: 'slug-out', start: [2025, 5, 3, 11, 40], h0M: 0.5, crew: 'P. Varga (invented)' },
+  { well: 'MW-18', kind: 'vented', testType: 'slug-out', start: [2025, 5, 3, 13, 15], h0M: 0.55, crew: 'P. Varga (invented)' },
+];
+
+export async function seedDemoChannelRecords(m: EntityManager, site: Site): Promise<string[]> {
+  return storePlans(m, site, CHANNEL_PLANS, PLANS.length);
+}
+
+async function storePlans(m: EntityManager, site: Site, plans: Plan[], seedOffset: number): Promise<string[]> {
   const wells = new Map((await m.getRepository(Well).find({ where: { siteId: site.id } })).map((w) => [w.name, w]));
   const analyst = await m.getRepository(User).findOne({ where: { email: 'analyst@demo.kfield.example' } });
-  let made = 0;
-  for (const [i, plan] of PLANS.entries()) {
+  const ids: string[] = [];
+  for (const [j, plan] of plans.entries()) {
+    const i = j + seedOffset;
     const well = wells.get(plan.well);
     if (!well) continue;
     const k = demoTrueK(well.siteX, well.siteY, well.hydroUnit);
     const t0 = hvorslevT0Seconds(wellGeometry(well), k);
     const jitter = noise(1000 + i * 7919);
     const g = plan.kind === 'tape' ? tapeRecord(plan, well, t0, jitter) : loggerRecord(plan, well, t0, jitter);
+    let stored;
     if (g.kind === 'tape') {
       const body = g.tape!;
       const { readings: _r, fieldCrew, notes, ...settings } = body;
-      await storeRecord(m, {
+      stored = await storeRecord(m, {
         well, userId: analyst?.id ?? null, source: 'tape', testType: body.testType, reference: 'depth', settings, read: readTape(body),
         fieldCrew, notes, files: [{ role: 'raw', name: 'tape-readings.csv', mediaType: 'text/csv', content: Buffer.from(tapeCsv(body), 'utf8') }], isDemo: true,
       });
     } else {
       const settings = g.settings!;
       const read = readLogger({ file: g.file!.content, barometric: g.barometric?.content, settings });
-      await storeRecord(m, {
+      stored = await storeRecord(m, {
         well, userId: analyst?.id ?? null, source: 'logger', testType: settings.testType, reference: settings.reference,
         settings: settings as unknown as Record<string, unknown>, read, fieldCrew: settings.fieldCrew, notes: settings.notes,
         files: [{ role: 'raw', ...g.file! }, ...(g.barometric ? [{ role: 'barometric' as const, ...g.barometric }] : [])], isDemo: true,
       });
     }
-    made++;
+    ids.push(stored);
   }
-  return made;
+  return ids;
 }

@@ -8,6 +8,7 @@ import { Membership } from '../../features/sites/membership.entity';
 import { Site } from '../../features/sites/site.entity';
 import { User } from '../../features/users/user.entity';
 import { seedDemoRecords } from './demo-records';
+import { seedDemoSurface } from './demo-surface';
 import { seedDemoWells } from './demo-wells';
 
 /** Everything below is invented for the demo: no real site, person or data. */
@@ -48,5 +49,6 @@ export async function seedDemoIfEmpty(ds: DataSource, config: Config): Promise<b
   });
   // Fits go through the fit service (its own transactions), after the records exist.
   await seedDemoFits(ds, config);
+  await seedDemoSurface(ds, config);
   return true;
 }
