@@ -1,7 +1,10 @@
-import { booleanPointInPolygon, point } from '@turf/turf';
+import { booleanPointInPolygon, distance, point } from '@turf/turf';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { CAUTIONS } from '../../shared/cautions';
+import { Membership } from '../../server/features/sites/membership.entity';
+import { User } from '../../server/features/users/user.entity';
 import { Well } from '../../server/features/wells/well.entity';
+import { insertSyntheticRecord } from '../support/synthetic-record';
 import { DEMO_OUTLINE_NAME } from '../../server/db/seed/demo-surface';
 import { demoChannelWeight } from '../../server/db/seed/demo-wells';
 import { demoEmail, startTestServer, type ApiClient, type TestServer } from '../support/test-server';
@@ -196,5 +199,68 @@ describe('cross-validation', () => {
       expect(s.nearestWellM).toBeGreaterThan(0);
     }
     expect(cv.cautions).toEqual(CAUTIONS);
+  });
+});
+
+describe('sites in feet and in degrees', () => {
+  let reader: ApiClient;
+  beforeAll(async () => {
+    reader = await ts.as(demoEmail('Admin'));
+  });
+
+  /** A new site with three wells (entered as lat/lon, about 100 m apart), each with one Checked fit. */
+  async function siteWithCheckedWells(epsgCode: number): Promise<{ siteId: string; wells: Well[] }> {
+    const admin = await ts.as(demoEmail('Admin'));
+    const site = (await admin.post('/api/sites', { name: `Surface on EPSG:${epsgCode}`, epsgCode, displayUnits: 'US' }).expect(201)).body;
+    const analyst = await ts.as(demoEmail('Analyst'));
+    const checker = await ts.as(demoEmail('Checker'));
+    for (const [email, role] of [[demoEmail('Analyst'), 'Analyst'], [demoEmail('Checker'), 'Checker']] as const) {
+      const u = await ts.ds.getRepository(User).findOneByOrFail({ email });
+      await ts.ds.getRepository(Membership).insert({ siteId: site.id, userId: u.id, role });
+    }
+    const m = (value: number) => ({ value, unit: 'm' });
+    const spots: [string, number, number, number][] = [['A', -76.5, 40.0, 1e-5], ['B', -76.4988, 40.0, 1e-4], ['C', -76.5, 40.0009, 1e-3]];
+    for (const [name, lon, lat, k] of spots) {
+      const well = (await analyst.post(`/api/sites/${site.id}/wells`, {
+        name, coordinates: { kind: 'latlon', lat, lon }, groundElevation: m(100), measuringPointElevation: m(100.5), screenReference: 'depth',
+        screenTop: m(3), screenBottom: m(6), casingRadius: m(0.0254), screenRadius: m(0.0254), boreholeRadius: m(0.1016), filterPackPorosity: 0.3,
+        hydroUnit: null, aquiferCondition: 'unconfined', saturatedThickness: m(8), staticWaterDepth: m(2.5), status: 'active', notes: '',
+      }).expect(201)).body;
+      const { recordId } = await insertSyntheticRecord(ts.ds, well.id, { kMetersPerSecond: k });
+      const fit = (await analyst.post(`/api/records/${recordId}/fits`, { method: 'hvorslev' }).expect(201)).body;
+      await analyst.post(`/api/fits/${fit.id}/submit`).expect(200);
+      await checker.post(`/api/fits/${fit.id}/check`, { decision: 'checked' }).expect(200);
+    }
+    return { siteId: site.id, wells: await ts.ds.getRepository(Well).find({ where: { siteId: site.id }, order: { name: 'ASC' } }) };
+  }
+
+  it('lays a site in US survey feet out in metres (the same projection), distances in metres', async () => {
+    const { siteId, wells } = await siteWithCheckedWells(2272);
+    const s = (await reader.get(`/api/sites/${siteId}/k-surface`).expect(200)).body;
+    expect(s.gridCrs.proj4).toMatch(/\+units=m\b/);
+    expect(s.gridCrs.proj4).not.toMatch(/us-ft/);
+    expect(s.warnings.join(' ')).toMatch(/fewer than 5/);
+    const [a, b] = wells;
+    const k = (await reader.get(`/api/sites/${siteId}/k-at`).query({ x: a.siteX, y: a.siteY }).expect(200)).body;
+    const exact = (await reader.get(`/api/wells/${a.id}/k`).expect(200)).body;
+    expect(k.log10K).toBe(exact.log10Mean);
+    // 1 US survey foot = 1200/3937 m (NIST SP 811).
+    const ab = k.nearest.find((n: { name: string }) => n.name === 'B').distanceM;
+    expect(ab).toBeCloseTo(Math.hypot(b.siteX - a.siteX, b.siteY - a.siteY) * (1200 / 3937), 3);
+    expect(ab / (1000 * distance(point([a.lon, a.lat]), point([b.lon, b.lat])))).toBeCloseTo(1, 2);
+    // The grid's corners come back to WGS84 around the wells.
+    expect(s.corners[0][0]).toBeCloseTo(-76.5, 2);
+    expect(s.corners[0][1]).toBeCloseTo(40.0, 2);
+  });
+
+  it('lays a site in degrees out in a local projection, distances in metres', async () => {
+    const { siteId, wells } = await siteWithCheckedWells(4326);
+    const s = (await reader.get(`/api/sites/${siteId}/k-surface`).expect(200)).body;
+    expect(s.gridCrs.label).toMatch(/Local projection/);
+    const [a, b] = wells;
+    const k = (await reader.get(`/api/sites/${siteId}/k-at`).query({ x: a.lon, y: a.lat }).expect(200)).body;
+    expect(k.log10K).toBeCloseTo((await reader.get(`/api/wells/${a.id}/k`).expect(200)).body.log10Mean, 9);
+    const ab = k.nearest.find((n: { name: string }) => n.name === 'B').distanceM;
+    expect(ab / (1000 * distance(point([a.lon, a.lat]), point([b.lon, b.lat])))).toBeCloseTo(1, 2);
   });
 });

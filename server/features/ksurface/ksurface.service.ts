@@ -184,7 +184,12 @@ export function createKSurfaceService(ctx: AppContext) {
 
   /** IDW at a point given in the site's system (no outline clipping: the outline only bounds surfaces). */
   function valueAt(inp: SurfaceInputs, siteX: number, siteY: number): { gx: number; gy: number; log10K: number | null } {
-    const [gx, gy] = inp.crs.siteToGrid(siteX, siteY);
+    let [gx, gy] = [Number.NaN, Number.NaN];
+    try {
+      [gx, gy] = inp.crs.siteToGrid(siteX, siteY);
+    } catch {
+      // refused just below
+    }
     if (!Number.isFinite(gx) || !Number.isFinite(gy)) throw badRequest('This point cannot be placed in the site’s system', { x: 'Not a point of the site’s system' });
     const v = inp.points.length ? idwAt(inp.points, gx, gy, inp.options) : Number.NaN;
     return { gx, gy, log10K: Number.isFinite(v) ? v : null };
@@ -195,6 +200,7 @@ export function createKSurfaceService(ctx: AppContext) {
     enoughWells(inp);
     const { gx, gy, log10K } = valueAt(inp, q.x, q.y);
     const [lon, lat] = inp.crs.gridToWgs84(gx, gy);
+    if (!Number.isFinite(lon) || !Number.isFinite(lat)) throw badRequest('This point cannot be placed in the site’s system', { x: 'Not a point of the site’s system' });
     const nearest = inp.wells
       .map((w) => ({ w, d: Math.hypot(w.x - gx, w.y - gy) }))
       .sort((a, b) => a.d - b.d)

@@ -119,7 +119,13 @@ export function checkOutline(input: unknown, crs: 'wgs84' | 'site', at: OutlineA
     const b = at.wellsBox;
     let far = 0;
     for (const p of wgs) for (const r of p) for (const [lon, lat] of r) {
-      const [x, y] = at.crs.wgs84ToGrid(lon, lat);
+      let x = Number.NaN;
+      let y = Number.NaN;
+      try {
+        [x, y] = at.crs.wgs84ToGrid(lon, lat);
+      } catch {
+        // out of the projection's reach: counted as too far below
+      }
       const dx = Math.max(b.minX - x, 0, x - b.maxX);
       const dy = Math.max(b.minY - y, 0, y - b.maxY);
       const d = Number.isFinite(x) && Number.isFinite(y) ? Math.hypot(dx, dy) : Number.POSITIVE_INFINITY;

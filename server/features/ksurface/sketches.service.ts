@@ -38,11 +38,17 @@ export function createSketchesService(ctx: AppContext) {
 
   /** Every number of a sketch, from its inputs; refusals name the field. Reads only (no transaction). */
   async function compute(siteId: string, body: SketchBody) {
-    const surfaceQuery = kSurfaceQuerySchema.parse(body.surface ?? {});
-    const inp = await surfaces.inputs(siteId, surfaceQuery);
+    const parsed = kSurfaceQuerySchema.safeParse(body.surface ?? {});
+    if (!parsed.success) throw refuse('surface', parsed.error.issues[0]?.message ?? 'Bad surface settings');
+    const inp = await surfaces.inputs(siteId, parsed.data);
     const { crs } = inp;
-    const [gx, gy] = crs.siteToGrid(body.x, body.y);
-    const [lon, lat] = crs.siteToWgs84(body.x, body.y);
+    let [gx, gy, lon, lat] = [Number.NaN, Number.NaN, Number.NaN, Number.NaN];
+    try {
+      [gx, gy] = crs.siteToGrid(body.x, body.y);
+      [lon, lat] = crs.siteToWgs84(body.x, body.y);
+    } catch {
+      // refused just below
+    }
     if (![gx, gy, lon, lat].every(Number.isFinite)) throw refuse('x', 'This point cannot be placed in the site’s system');
     const siteWells = await ds.getRepository(Well).find({ where: { siteId } });
     if (siteWells.length) {
