@@ -1,6 +1,7 @@
 import proj4 from 'proj4';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { CAUTIONS } from '../../shared/cautions';
+import { captureSketchListSchema, captureSketchSchema } from '../../shared/schemas/ksurface';
 import { DEMO_SKETCH_NAME } from '../../server/db/seed/demo-surface';
 import { Membership } from '../../server/features/sites/membership.entity';
 import { User } from '../../server/features/users/user.entity';
@@ -36,6 +37,7 @@ describe('capture sketches', () => {
     expect(s.results.transmissivityM2PerS).toBeCloseTo(1e-3, 15);
     expect(s.results.darcyVelocityMPerS).toBeCloseTo(5e-7, 15);
     expect(s.cautions).toEqual(CAUTIONS);
+    expect(captureSketchSchema.safeParse(s).success).toBe(true);
     // Flow toward grid east: the stagnation point lies 31.83 m east of the well.
     const [sx, sy] = proj4('WGS84', UTM32, [s.results.stagnationPoint.lon, s.results.stagnationPoint.lat]);
     expect(sx - 512425).toBeCloseTo(31.83, 2);
@@ -129,7 +131,9 @@ describe('capture sketches', () => {
   });
 
   it('are listed, read, exported as GeoJSON and deleted; a Viewer reads but cannot write', async () => {
-    const list = (await viewer.get(url()).expect(200)).body.sketches;
+    const listed = (await viewer.get(url()).expect(200)).body;
+    expect(captureSketchListSchema.safeParse(listed).success).toBe(true);
+    const list = listed.sketches;
     const demo = list.find((s: { name: string }) => s.name === DEMO_SKETCH_NAME);
     expect(demo).toBeDefined();
     expect(demo.inputs.gradient.mode).toBe('wells');

@@ -1,6 +1,7 @@
 import { booleanPointInPolygon, distance, point } from '@turf/turf';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { CAUTIONS } from '../../shared/cautions';
+import { crossValidationSchema, kAtSchema, kSurfaceSchema } from '../../shared/schemas/ksurface';
 import { Membership } from '../../server/features/sites/membership.entity';
 import { User } from '../../server/features/users/user.entity';
 import { Well } from '../../server/features/wells/well.entity';
@@ -50,6 +51,8 @@ describe('the K surface', () => {
     expect(s.wellsUsed).toBe(wells.size);
     expect(s.gridCrs.label).toMatch(/EPSG:32632/);
     expect(s.cautions).toEqual(CAUTIONS);
+    // The answer is what the client parses it with.
+    expect(kSurfaceSchema.safeParse(s).success).toBe(true);
     expect(s.settings).toEqual({ power: 2, neighbours: null, searchRadiusM: null, outlineId: outline.id });
     const cells = decode(s.log10K);
     expect(cells.length).toBe(s.cols * s.rows);
@@ -111,6 +114,7 @@ describe('the K surface', () => {
     const exact = (await viewer.get(`/api/wells/${mw17.id}/k`).expect(200)).body;
     expect(k.log10K).toBe(exact.log10Mean);
     expect(k.kMetersPerSecond).toBeCloseTo(exact.kMetersPerSecond, 15);
+    expect(kAtSchema.safeParse(k).success).toBe(true);
     expect(k.nearest).toHaveLength(5);
     expect(k.nearest[0]).toMatchObject({ name: 'MW-17', distanceM: 0, saturatedThicknessM: mw17.saturatedThicknessM });
     for (let i = 1; i < 5; i++) expect(k.nearest[i].distanceM).toBeGreaterThanOrEqual(k.nearest[i - 1].distanceM);
@@ -178,6 +182,7 @@ describe('cross-validation', () => {
   it('predicts each well from the others, per power, suggests one of the five, and names next-test spots inside the outline', async () => {
     const cv = (await viewer.get(`${base()}/k-surface/cross-validation`).query({ outlineId: outline.id }).expect(200)).body;
     const wells = await wellLog10K();
+    expect(crossValidationSchema.safeParse(cv).success).toBe(true);
     expect(cv.n).toBe(wells.size);
     expect(cv.power).toBe(2);
     expect(cv.byPower.map((p: { power: number }) => p.power)).toEqual([1, 1.5, 2, 2.5, 3]);

@@ -1,5 +1,6 @@
 import proj4 from 'proj4';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { outlineListSchema } from '../../shared/schemas/ksurface';
 import { demoEmail, startTestServer, type ApiClient, type TestServer } from '../support/test-server';
 
 let ts: TestServer;
@@ -39,7 +40,9 @@ describe('outlines', () => {
     expect(created.areaM2).toBeLessThan(40_100);
     expect(typeof created.createdBy).toBe('string');
 
-    const list = (await viewer.get(url()).expect(200)).body.outlines;
+    const listed = (await viewer.get(url()).expect(200)).body;
+    expect(outlineListSchema.safeParse(listed).success).toBe(true);
+    const list = listed.outlines;
     expect(list.map((o: { id: string }) => o.id)).toContain(created.id);
     expect((await viewer.get(`${url()}/${created.id}`).expect(200)).body.name).toBe('Study area A');
 
