@@ -18,7 +18,7 @@ import { boundsOf, filterWells, hasWellK, histogram, labelMinZoom, NO_FILTER, pi
 import { downloadBlob, renderViewPng } from '../export-png';
 import { CursorReadout } from './cursor-readout';
 import { createCursorStore } from './cursor-store';
-import { FIT_MAX_ZOOM, FIT_PADDING, KMap, type LayerVisibility, type SelectMode } from './k-map';
+import { FIT_MAX_ZOOM, fitPadding, KMap, type LayerVisibility, type SelectMode } from './k-map';
 import { KLegend } from './k-legend';
 import { KMapFilters } from './k-map-filters';
 import { MapOverlay } from './map-overlay';
@@ -150,7 +150,7 @@ export function KMapPage({ site, wells, crsUnit, basemaps, canEdit }: Props) {
 
   const fitToSite = () => {
     const b = boundsOf(shown) ?? siteBounds;
-    if (b) mapRef.current?.fitBounds(b, { padding: FIT_PADDING, maxZoom: FIT_MAX_ZOOM, duration: 600 });
+    if (b) mapRef.current?.fitBounds(b, { padding: fitPadding(), maxZoom: FIT_MAX_ZOOM, duration: 600 });
   };
 
   const pickWell = (id: string) => {
@@ -228,7 +228,7 @@ export function KMapPage({ site, wells, crsUnit, basemaps, canEdit }: Props) {
           Map of the wells
         </h2>
         <div
-          className="relative h-[58vh] min-h-80 overflow-hidden rounded-lg ring-1 ring-slate-200 lg:absolute lg:inset-0 lg:h-auto lg:rounded-none lg:ring-0 lg:[&_.maplibregl-ctrl-top-right]:right-[23rem] lg:[&_.maplibregl-ctrl-bottom-left]:left-[21rem]"
+          className="relative h-[58vh] min-h-80 overflow-hidden rounded-lg ring-1 ring-slate-200 lg:absolute lg:inset-0 lg:h-auto lg:rounded-none lg:ring-0 lg:[&_.maplibregl-ctrl-top-right]:right-[23rem]! lg:[&_.maplibregl-ctrl-bottom-left]:bottom-[5.75rem]! lg:[&_.maplibregl-ctrl-bottom-left]:left-[21.5rem]!"
           data-testid="kmap-map"
           aria-labelledby="kmap-map-title"
           role="region"
@@ -357,10 +357,11 @@ export function KMapPage({ site, wells, crsUnit, basemaps, canEdit }: Props) {
                   renderMs={ws.renderMs}
                 />
               </Panel>
-              <Panel title="Cross-validation" titleId="kcv-title" defaultOpen={false} testId="kcv-section">
+              <Panel title="Cross-validation" titleId="kcv-title" defaultOpen={false} testId="kcv-section" onOpenChange={ws.setCvOpen}>
                 <CrossValidationPanel
                   cv={ws.cv.data}
                   pending={ws.cv.isFetching}
+                  shown={ws.effectiveSettings.show}
                   error={ws.cv.error ? describeError(ws.cv.error) : null}
                   power={ws.effectiveSettings.power}
                   onUsePower={(power) => ws.setSettings({ ...ws.effectiveSettings, power })}

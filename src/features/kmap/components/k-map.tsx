@@ -47,6 +47,12 @@ export interface KMapProps {
 }
 
 export const FIT_PADDING = 48;
+
+/** On a wide screen the panels float over the map's sides: the site is fitted into the space between them. */
+export function fitPadding(): number | { top: number; bottom: number; left: number; right: number } {
+  if (typeof window === 'undefined' || !window.matchMedia('(min-width: 1024px)').matches) return FIT_PADDING;
+  return { top: FIT_PADDING + 8, bottom: FIT_PADDING + 72, left: 21 * 16 + 24, right: 23 * 16 + 16 };
+}
 export const FIT_MAX_ZOOM = 17;
 
 const visible = (on: boolean) => (on ? 'visible' : 'none') as 'visible' | 'none';
@@ -91,7 +97,7 @@ export function KMap(props: KMapProps) {
         mapStyle={mapStyle}
         initialViewState={
           initialBounds
-            ? { bounds: initialBounds, fitBoundsOptions: { padding: FIT_PADDING, maxZoom: FIT_MAX_ZOOM } }
+            ? { bounds: initialBounds, fitBoundsOptions: { padding: fitPadding(), maxZoom: FIT_MAX_ZOOM } }
             : { longitude: 0, latitude: 20, zoom: 1.5 }
         }
         style={{ width: '100%', height: '100%' }}

@@ -10,6 +10,7 @@ export function Panel({
   className,
   children,
   testId,
+  onOpenChange,
 }: {
   title: ReactNode;
   titleId: string;
@@ -18,8 +19,14 @@ export function Panel({
   className?: string;
   children: ReactNode;
   testId?: string;
+  onOpenChange?: (open: boolean) => void;
 }) {
-  const [open, setOpen] = useState(defaultOpen);
+  const [open, setOpenState] = useState(defaultOpen);
+  const setOpen = (update: (o: boolean) => boolean) => {
+    const next = update(open);
+    setOpenState(next);
+    onOpenChange?.(next);
+  };
   return (
     <section
       aria-labelledby={titleId}

@@ -15,6 +15,8 @@ const latLon = (lat: number, lon: number) => `${Math.abs(lat).toFixed(5)}° ${la
 interface Props {
   cv: CrossValidation | undefined;
   pending: boolean;
+  /** Whether the K surface is shown (the cross-validation follows its settings). */
+  shown: boolean;
   error: string | null;
   power: number;
   onUsePower: (p: number) => void;
@@ -24,9 +26,10 @@ interface Props {
 }
 
 /** Leave-one-out cross-validation of the surface's settings: errors by power, the plot, next-test spots. */
-export function CrossValidationPanel({ cv, pending, error, power, onUsePower, kUnit, displayUnits, epsgCode }: Props) {
+export function CrossValidationPanel({ cv, pending, shown, error, power, onUsePower, kUnit, displayUnits, epsgCode }: Props) {
   if (error) return <p className="text-sm text-red-700">{error}</p>;
-  if (!cv) return pending ? <Spinner label="Cross-validating…" /> : <p className="text-sm text-slate-600">Show the K surface to cross-validate it.</p>;
+  if (!shown) return <p className="text-sm text-slate-600">Show the K surface to cross-validate its settings.</p>;
+  if (!cv) return pending ? <Spinner label="Cross-validating…" /> : <p className="text-sm text-slate-600">Needs at least two wells with a Well K.</p>;
   const rows = [{ power: cv.power, rmseLog10: cv.rmseLog10, meanErrorLog10: cv.meanErrorLog10, current: true }, ...cv.byPower.map((r) => ({ ...r, current: false }))];
   return (
     <div className="space-y-3 text-sm" data-testid="cv-panel">

@@ -48,7 +48,8 @@ export const outlineFillLayer: On<FillLayerSpecification, typeof SOURCES.outline
   id: 'ksurface-outline-fill',
   type: 'fill',
   source: SOURCES.outlines,
-  paint: { 'fill-color': COLOURS.outline, 'fill-opacity': ['case', ['boolean', ['get', 'chosen'], false], 0.04, 0.08] },
+  // Under a shown surface the fill would tint its colours away from the legend's: the chosen outline is a line only.
+  paint: { 'fill-color': COLOURS.outline, 'fill-opacity': ['case', ['boolean', ['get', 'chosen'], false], 0, 0.08] },
 };
 
 export const outlineLineLayer: On<LineLayerSpecification, typeof SOURCES.outlines> = {

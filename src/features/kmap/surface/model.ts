@@ -200,17 +200,6 @@ export function highKZones(
   return featureCollection(features);
 }
 
-/** The painted grid as a PNG data URL for a maplibre image source (one pixel per cell). */
-export function surfaceDataUrl(cols: number, rows: number, pixels: Uint8ClampedArray<ArrayBuffer>): string {
-  const canvas = document.createElement('canvas');
-  canvas.width = cols;
-  canvas.height = rows;
-  const ctx = canvas.getContext('2d');
-  if (!ctx) throw new Error('This browser cannot draw the surface.');
-  ctx.putImageData(new ImageData(pixels, cols, rows), 0, 0);
-  return canvas.toDataURL('image/png');
-}
-
 /** An area in m² written in the site's units: m² or hectares, ft² or acres. */
 export function formatArea(areaM2: number, units: 'SI' | 'US'): string {
   if (units === 'US') {

@@ -1,5 +1,6 @@
-import { useMemo } from 'react';
-import { Layer, Source } from 'react-map-gl/maplibre';
+import { useEffect, useMemo } from 'react';
+import { Layer, Source, useMap, type SourceProps } from 'react-map-gl/maplibre';
+import type { CanvasSource } from 'maplibre-gl';
 import type { Feature, FeatureCollection, Geometry } from 'geojson';
 import { LAYER_IDS } from '../layers';
 import {
@@ -20,8 +21,9 @@ import {
 } from './layers';
 import type { Workspace } from './use-workspace';
 
-/** A transparent pixel: the image source exists from the start, so the layers' order never changes. */
-const BLANK = 'data:image/png;base64,iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAQAAAC1HAwCAAAAC0lEQVR42mNkYAAAAAYAAjCB0C8AAAAASUVORK5CYII=';
+type Corners = [[number, number], [number, number], [number, number], [number, number]];
+/** react-map-gl's types leave out canvas sources, which it passes through to maplibre all the same. */
+const canvasSource = (canvas: HTMLCanvasElement, coordinates: Corners) => ({ type: 'canvas', canvas, animate: false, coordinates }) as unknown as SourceProps;
 const EMPTY: FeatureCollection = { type: 'FeatureCollection', features: [] };
 const BELOW_WELLS = LAYER_IDS.selectedHalo;
 const visible = (on: boolean) => ({ visibility: (on ? 'visible' : 'none') as 'visible' | 'none' });
@@ -66,11 +68,39 @@ export function SurfaceOverlays({ ws, hasGlyphs, siteBounds }: { ws: Workspace; 
     [ws.trial],
   );
   const image = ws.image;
+  const { current: map } = useMap();
+  /*
+   * A canvas source, one pixel per cell: no image URL to fetch (the page's CSP allows no data: fetch) and
+   * no PNG to encode. It exists from the start, so the layers' order never changes; after each
+   * repaint the source plays for two frames, which uploads the canvas to its texture.
+   */
+  const canvas = useMemo(() => {
+    const c = document.createElement('canvas');
+    c.width = 1;
+    c.height = 1;
+    return c;
+  }, []);
+  useEffect(() => {
+    if (!image) return;
+    canvas.width = image.cols;
+    canvas.height = image.rows;
+    canvas.getContext('2d')?.putImageData(new ImageData(image.pixels, image.cols, image.rows), 0, 0);
+    const source = map?.getMap().getSource(SOURCES.surface) as CanvasSource | undefined;
+    if (!source) return;
+    source.play();
+    let frame = requestAnimationFrame(() => {
+      frame = requestAnimationFrame(() => source.pause());
+    });
+    return () => {
+      cancelAnimationFrame(frame);
+      source.pause();
+    };
+  }, [image, canvas, map]);
   const surfacePaint = useMemo(() => ({ ...surfaceLayer.paint, 'raster-opacity': ws.opacity }), [ws.opacity]);
 
   return (
     <>
-      <Source id={SOURCES.surface} type="image" url={image?.url ?? BLANK} coordinates={image?.corners ?? blankCorners}>
+      <Source id={SOURCES.surface} {...canvasSource(canvas, image?.corners ?? blankCorners)}>
         <Layer {...surfaceLayer} paint={surfacePaint} layout={visible(image !== null)} beforeId={BELOW_WELLS} />
       </Source>
       <Source id={SOURCES.outlines} type="geojson" data={outlinesShown}>

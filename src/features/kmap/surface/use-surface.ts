@@ -1,4 +1,4 @@
-import { useEffect, useMemo, useRef, useState } from 'react';
+import { useEffect, useLayoutEffect, useMemo, useRef, useState } from 'react';
 import proj4 from 'proj4';
 import { gridFor, type GridSpec, type IdwOptions, type IdwPoint } from '@shared/geo/idw';
 import { localProjection } from '@shared/geo/local-crs';
@@ -96,7 +96,8 @@ export function useSurface(input: SurfaceInput | null): SurfaceState {
     [],
   );
 
-  useEffect(() => {
+  // Posted before the browser paints: a slow frame of the map does not delay the worker.
+  useLayoutEffect(() => {
     if (!input) {
       setState({ status: 'idle' });
       return;

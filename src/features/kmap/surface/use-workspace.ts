@@ -19,7 +19,6 @@ import {
   pointsBounds,
   projectRings,
   ringsBounds,
-  surfaceDataUrl,
   surfacePoints,
   surfaceStats,
   valueAt,
@@ -48,6 +47,15 @@ function useSiteXY(epsgCode: number) {
     const c = proj4(WGS84, name);
     return { toSite: (lon: number, lat: number) => c.forward([lon, lat]) as [number, number], fromSite: (x: number, y: number) => c.inverse([x, y]) as [number, number] };
   }, [name]);
+}
+
+function useDebounced<T>(value: T, ms: number): T {
+  const [settled, setSettled] = useState(value);
+  useEffect(() => {
+    const t = setTimeout(() => setSettled(value), ms);
+    return () => clearTimeout(t);
+  }, [value, ms]);
+  return settled;
 }
 
 /** The preferred outline when none is chosen yet: a plume's, else the first. */
@@ -124,9 +132,9 @@ export function useWorkspace({ site, all, shown, filter, crsUnit, scale, mapRef,
   const image = useMemo(() => {
     if (!result || !gridCrs) return null;
     const started = performance.now();
-    const url = surfaceDataUrl(result.grid.cols, result.grid.rows, paintSurface(result.values, table));
+    const pixels = paintSurface(result.values, table);
     const corners = gridCorners(result.grid).map(([x, y]) => gridCrs.unproject(x, y)) as [[number, number], [number, number], [number, number], [number, number]];
-    return { url, corners, paintMs: performance.now() - started, result };
+    return { pixels, cols: result.grid.cols, rows: result.grid.rows, corners, paintMs: performance.now() - started, result };
   }, [result, table, gridCrs]);
   const renderMs = image && surface.status === 'ready' && image.result === surface.result ? surface.result.totalMs + image.paintMs : null;
   const stats = useMemo(() => (result ? surfaceStats(result.values) : null), [result]);
@@ -157,7 +165,10 @@ export function useWorkspace({ site, all, shown, filter, crsUnit, scale, mapRef,
     }),
     [effectiveSettings.outlineId, settings.power, settings.neighbours, settings.searchRadiusM, settings.cellSizeM, filter],
   );
-  const cv = useQuery(crossValidationQueryOptions(site.id, surfaceQueryString(surfaceQuery), settings.show && wellsUsed >= MIN_WELLS));
+  // Asked for only while its panel is open, and once the settings rest: a server round trip must not slow the surface's redraw.
+  const [cvOpen, setCvOpen] = useState(false);
+  const cvQuery = useDebounced(surfaceQueryString(surfaceQuery), 300);
+  const cv = useQuery(crossValidationQueryOptions(site.id, cvQuery, cvOpen && settings.show && wellsUsed >= MIN_WELLS));
 
   const wellAt = useMemo(() => new Map(all.map((w) => [w.id, w.geometry.coordinates])), [all]);
   const cvRings = useMemo<FeatureCollection<Point>>(
@@ -226,6 +237,8 @@ export function useWorkspace({ site, all, shown, filter, crsUnit, scale, mapRef,
     readK,
     surfaceQuery,
     cv,
+    cvOpen,
+    setCvOpen,
     cvRings,
     spots,
     draw,
