@@ -154,6 +154,9 @@ describe('the K surface', () => {
     const few = (await viewer.get(`${base()}/k-surface`).query({ units: 'Silt' }).expect(200)).body;
     expect(few.wellsUsed).toBe(silt.length);
     expect(few.warnings.join(' ')).toMatch(/fewer than 5/);
+    expect(few.warnings.join(' ')).not.toMatch(/hydrostratigraphic units/);
+    const mixed = (await viewer.get(`${base()}/k-surface`).expect(200)).body;
+    expect(mixed.warnings.join(' ')).toMatch(/Wells of 3 hydrostratigraphic units feed this surface \(Buried channel gravel, Sand and gravel, Silt\)/);
 
     // Only the deepest-screened silt well: its screen bottom is the lowest.
     const one = await viewer.get(`${base()}/k-surface`).query({ units: 'Silt', screenElevationMaxM: silt[0].bottom + 0.001 });

@@ -136,6 +136,10 @@ export function createKSurfaceService(ctx: AppContext) {
     if (inp.wells.length < FEW_WELLS) {
       warnings.push(`Only ${inp.wells.length} wells with a checked K feed this surface; with fewer than ${FEW_WELLS} it says little between them.`);
     }
+    const units = [...new Set(inp.wells.map((w) => w.well.hydroUnit ?? 'no unit'))].sort();
+    if (units.length > 1) {
+      warnings.push(`Wells of ${units.length} hydrostratigraphic units feed this surface (${units.join(', ')}); IDW does not know layers, so filter by unit to map one.`);
+    }
     if (empty > 0) warnings.push(`${empty.toLocaleString('en')} cells have no well within the search radius and are left empty.`);
     if (inp.outline && mask && n === 0 && empty === 0) warnings.push('No cell centre falls inside the outline at this cell size; choose a smaller cell.');
     const maxX = g.minX + g.cols * g.cellSizeM;
