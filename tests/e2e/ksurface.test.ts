@@ -195,7 +195,6 @@ describe('the K surface, outlines and capture sketches in the browser', () => {
     await e2e.shot(page, 'ksurface-high-k-zone-1280');
 
     // Cross-validation: the table by power, the suggestion, the plot naming the worst wells, next-test spots.
-    await page.getByRole('button', { name: 'K surface', exact: true }).click();
     await openPanel(page, 'Cross-validation');
     const cv = page.getByTestId('cv-panel');
     await cv.waitFor({ timeout: 30_000 });
@@ -275,6 +274,90 @@ describe('the K surface, outlines and capture sketches in the browser', () => {
     const file = path.join(SCREENSHOTS, 'ksurface-capture-sketches.geojson');
     await download.saveAs(file);
     expect(fs.readFileSync(file, 'utf8')).toContain('Trial well E2E');
+  });
+
+  it('uploads, draws, edits, renames, exports and deletes outlines, with a refusal shown in words', async () => {
+    const page = await e2e.newPage();
+    await e2e.signIn(page, demoEmail('Analyst'));
+    await openMap(page, e2e.ts.demoSiteId);
+    await openPanel(page, 'Outlines');
+    const wells: MapFeature[] = (await (await api()).get(`/api/sites/${e2e.ts.demoSiteId}/map/wells`).expect(200)).body.features;
+    const lon = wells.reduce((a, w) => a + w.geometry.coordinates[0], 0) / wells.length;
+    const lat = wells.reduce((a, w) => a + w.geometry.coordinates[1], 0) / wells.length;
+
+    // A line is no outline: the server's reason is shown beside the form.
+    const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'kfield-outline-'));
+    const bad = path.join(dir, 'line.geojson');
+    fs.writeFileSync(bad, JSON.stringify({ type: 'LineString', coordinates: [[lon, lat], [lon + 0.001, lat]] }));
+    await page.getByLabel('Name', { exact: true }).fill('E2E line');
+    await page.getByLabel(/^GeoJSON file/).setInputFiles(bad);
+    await page.getByRole('button', { name: 'Upload outline' }).click();
+    await expect.poll(() => page.getByTestId('outline-upload-error').textContent()).toMatch(/Polygon/);
+
+    const good = path.join(dir, 'square.geojson');
+    const d = 0.0012;
+    fs.writeFileSync(good, JSON.stringify({ type: 'Feature', properties: {}, geometry: { type: 'Polygon', coordinates: [[[lon - d, lat - d], [lon + d, lat - d], [lon + d, lat + d], [lon - d, lat + d], [lon - d, lat - d]]] } }));
+    await page.getByLabel('Name', { exact: true }).fill('E2E upload');
+    await page.getByLabel(/^GeoJSON file/).setInputFiles(good);
+    await page.getByRole('button', { name: 'Upload outline' }).click();
+    await page.locator('[data-outline="E2E upload"]').waitFor();
+    expect(await page.getByTestId('outline-upload-error').count()).toBe(0);
+
+    // Drawn on the map: four corners and back to the first.
+    const box = (await page.getByTestId('kmap-view').boundingBox())!;
+    const cx = box.x + box.width / 2;
+    const cy = box.y + box.height / 2;
+    const corners = [
+      [cx - 70, cy - 60],
+      [cx + 60, cy - 70],
+      [cx + 80, cy + 60],
+      [cx - 60, cy + 70],
+    ];
+    await page.getByRole('button', { name: 'Draw on the map' }).click();
+    for (const [x, y] of corners) {
+      await page.mouse.move(x, y, { steps: 3 });
+      await page.mouse.click(x, y);
+      await page.waitForTimeout(150);
+    }
+    await page.mouse.move(corners[0][0], corners[0][1], { steps: 3 });
+    await page.mouse.click(corners[0][0], corners[0][1]);
+    await page.getByLabel('Name of the drawn outline').fill('E2E drawn');
+    await e2e.shot(page, 'ksurface-outline-drawn-1280');
+    await page.getByRole('button', { name: 'Save outline' }).click();
+    const drawn = page.locator('[data-outline="E2E drawn"]');
+    await drawn.waitFor();
+    const areaBefore = (await drawn.locator('span').first().textContent())!;
+
+    // A vertex dragged outward makes it larger.
+    await drawn.getByRole('button', { name: 'Edit the shape of E2E drawn' }).click();
+    await page.waitForTimeout(300);
+    const [vx, vy] = corners[2];
+    await page.mouse.move(vx, vy, { steps: 2 });
+    await page.mouse.down();
+    await page.mouse.move(vx + 30, vy + 20, { steps: 6 });
+    await page.mouse.move(vx + 60, vy + 40, { steps: 6 });
+    await page.mouse.up();
+    await e2e.shot(page, 'ksurface-outline-editing-1280');
+    await drawn.getByRole('button', { name: 'Save shape' }).click();
+    await expect.poll(() => drawn.locator('span').first().textContent()).not.toBe(areaBefore);
+    console.log(`drawn outline: ${areaBefore} → ${await drawn.locator('span').first().textContent()}`);
+
+    await drawn.getByRole('button', { name: 'Rename E2E drawn' }).click();
+    await drawn.getByLabel('New name').fill('E2E renamed');
+    await drawn.getByRole('button', { name: 'Save' }).click();
+    const renamed = page.locator('[data-outline="E2E renamed"]');
+    await renamed.waitFor();
+    const [download] = await Promise.all([page.waitForEvent('download'), renamed.getByRole('button', { name: 'Export' }).click()]);
+    const file = path.join(dir, 'export.geojson');
+    await download.saveAs(file);
+    expect(fs.readFileSync(file, 'utf8')).toContain('Polygon');
+    await renamed.getByRole('button', { name: 'Delete E2E renamed' }).click();
+    await renamed.getByRole('button', { name: 'Delete', exact: true }).click();
+    await renamed.waitFor({ state: 'detached' });
+    const upload = page.locator('[data-outline="E2E upload"]');
+    await upload.getByRole('button', { name: 'Delete E2E upload' }).click();
+    await upload.getByRole('button', { name: 'Delete', exact: true }).click();
+    await upload.waitFor({ state: 'detached' });
   });
 
   it('fits a phone: the panels in a bottom sheet under the map, nothing wider than the screen', async () => {
