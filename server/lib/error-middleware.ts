@@ -1,4 +1,5 @@
-import type { ErrorRequestHandler } from 'express';
+import type { ErrorRequestHandler, Response } from 'express';
+import { settleBody } from './drain-body';
 import { QueryFailedError } from 'typeorm';
 import { AppError, conflict } from './errors';
 
@@ -34,7 +35,20 @@ export function uniqueViolationError(columns: string[]): AppError {
 
 /** The one place errors become answers: { error: { code, message, fields? } }. */
 export function errorMiddleware(log: (msg: string, e: unknown) => void): ErrorRequestHandler {
-  return (e, _req, res, _next) => {
+  const answer = errorAnswer(log);
+  return (e, req, res, _next) => {
+    if (res.headersSent) return;
+    // A refusal before the body was read (sign-in needed, no such site, bad JSON type) still reaches
+    // the client: the rest of a small body is read first. Bodies over a limit are the upload
+    // middleware's and body-parser's to end (413).
+    const tooLarge = (e as { status?: number })?.status === 413 || (e as { type?: string })?.type === 'entity.too.large';
+    if (tooLarge) return answer(e, res);
+    void settleBody(req, res).then(() => answer(e, res));
+  };
+}
+
+function errorAnswer(log: (msg: string, e: unknown) => void) {
+  return (e: unknown, res: Response) => {
     if (res.headersSent) return;
     const unique = uniqueViolation(e);
     if (unique) e = uniqueViolationError(unique);

@@ -1,5 +1,6 @@
 import type { NextFunction, Request, RequestHandler, Response, Router } from 'express';
 import type { z } from 'zod';
+import { settleBody } from './drain-body';
 import { parseOrThrow } from './validate';
 import { policyFor, type Policy } from '../auth/policy';
 import type { AppContext } from '../context';
@@ -49,7 +50,9 @@ export function mountRoutes(router: Router, ctx: AppContext, defs: RouteDef[], m
   for (const def of defs) {
     const policy = policyFor(def.method, def.path);
     mounted.push({ ...def, policy });
-    const validate: RequestHandler = (req, _res, next) => {
+    const validate: RequestHandler = async (req, res, next) => {
+      // Whatever of the body no parser or upload took is read first, so the client sees the answer.
+      await settleBody(req, res);
       if (def.params) Object.assign(req.params, parseOrThrow(def.params, req.params, 'address'));
       if (def.query) {
         const q = parseOrThrow(def.query, req.query, 'query');

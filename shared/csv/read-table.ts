@@ -86,7 +86,13 @@ export function readDelimitedTable(input: string, delimiter?: Delimiter): Delimi
   if (text.includes('\u0000')) throw new TableError('The file is not text (it contains NUL bytes)');
   const firstLine = text.split(/\r\n|\r|\n/, 1)[0];
   // inferSchema needs a line break; the first line decides the delimiter (tab, bar, semicolon, comma).
-  const probe = inferSchema(`${firstLine}\n`, { col: delimiter ?? null, trim: true });
+  let probe: ReturnType<typeof inferSchema>;
+  try {
+    probe = inferSchema(`${firstLine}\n`, { col: delimiter ?? null, trim: true });
+  } catch {
+    // uDSV's inference throws on some malformed headers (a quote opened and not closed on line 1).
+    throw new TableError('Line 1: the header line cannot be read as delimited text (is a quoted value left open?)');
+  }
   const col = probe.col;
   const raw = splitRecords(text, col);
   if (raw.length === 0) throw new TableError('The file is empty');

@@ -12,6 +12,15 @@ const HEALTH_EVERY = 200;
 const REQUEST_TIMEOUT_MS = 30_000;
 // A fixed seed by default, so that CI runs the same 10,000 inputs each time and a failure can be
 // replayed; FUZZ_SEED=<n> (or FUZZ_SEED=random) explores other inputs.
+/** A generated value as query text; an array parameter's values joined (some generated objects have no string form). */
+const queryText = (v: unknown): string => {
+  if (Array.isArray(v)) return v.map(queryText).join(',');
+  try {
+    return typeof v === 'object' && v !== null ? JSON.stringify(v) : String(v);
+  } catch {
+    return '';
+  }
+};
 const SEED = process.env.FUZZ_SEED === 'random' ? Date.now() % 1_000_000 : Number(process.env.FUZZ_SEED ?? 20261203);
 
 /*
@@ -206,7 +215,7 @@ function paramValue(route: Route, name: string, pools: Pools): fc.Arbitrary<stri
 function queryString(route: Route, pools: Pools): fc.Arbitrary<string> {
   const declared = route.op.parameters.filter((p) => p.in === 'query');
   const pair = fc.oneof(
-    ...declared.map((p) => fc.tuple(fc.constant(p.name), fc.oneof(rightValue(p.schema, pools, 0, p.name).map(String), urlString))),
+    ...declared.map((p) => fc.tuple(fc.constant(p.name), fc.oneof(rightValue(p.schema, pools, 0, p.name).map(queryText), urlString))),
     fc.tuple(fc.oneof(fc.constantFrom('__proto__', 'constructor', 'a[b]', 'points[]', '__proto__[isAdmin]', 'which', 'dryRun', ''), fc.string({ maxLength: 8 })), urlString),
   );
   return fc.array(pair, { maxLength: declared.length ? 5 : 2 }).map((pairs) => (pairs.length ? `?${pairs.map(([k, v]) => `${enc(k)}=${enc(v)}`).join('&')}` : ''));
@@ -270,7 +279,7 @@ function requestFor(route: Route, pools: Pools): fc.Arbitrary<FuzzRequest> {
   type BodyChoice = { body?: string | Buffer[]; type?: string; excerpt: string };
   const bodies: fc.Arbitrary<BodyChoice>[] = [];
   if (content['application/json'] || !mp) {
-    bodies.push(jsonBody(content['application/json']?.schema, pools).map(({ text, type }) => ({ body: text, type, excerpt: `${type} ${text.slice(0, 240)}${text.length > 240 ? `… (${text.length} chars)` : ''}` })));
+    bodies.push(jsonBody(content['application/json']?.schema, pools).map(({ text, type }) => ({ body: text, type, excerpt: `${type} ${text.slice(0, 2400)}${text.length > 2400 ? `… (${text.length} chars)` : ''}` })));
   }
   if (mp) {
     bodies.push(

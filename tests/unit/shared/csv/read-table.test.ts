@@ -39,6 +39,8 @@ describe('reading a small delimited table', () => {
     ['  \n \n', 'The file is empty'],
     ['a,b\n\u0000', 'The file is not text (it contains NUL bytes)'],
     ['a,b\n"1,2\n', 'Line 2: a quoted value is not closed before the end of the file'],
+    // Found by the reliability fuzzer: uDSV's inference threw a TypeError on this header (a 500).
+    ['"; DROP TABLE users; --', 'Line 1: the header line cannot be read'],
   ])('refuses %j: %s', (text, message) => {
     expect(() => readDelimitedTable(text)).toThrow(message);
   });
