@@ -1,7 +1,7 @@
 import { useState } from 'react';
 import type { DisplayUnits } from '@shared/schemas/sites';
 import type { Outline } from '@shared/schemas/ksurface';
-import { kToSi, type KUnit } from '@shared/units/conductivity';
+import { kFromSi, kToSi, type KUnit } from '@shared/units/conductivity';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
 import { Spinner } from '@/components/ui/spinner';
@@ -71,7 +71,8 @@ export function SurfacePanel(props: Props) {
   const set = (patch: Partial<SurfaceSettings>) => onChange({ ...settings, ...patch });
   const [radiusText, setRadiusText] = useState(settings.searchRadiusM?.toString() ?? '');
   const [cellText, setCellText] = useState(settings.cellSizeM?.toString() ?? '');
-  const [thresholdText, setThresholdText] = useState('');
+  // The panel's fields start from the settings: a collapsed panel unmounts them.
+  const [thresholdText, setThresholdText] = useState(settings.thresholdLog10 === null ? '' : Number(kFromSi(10 ** settings.thresholdLog10, kUnit).toPrecision(3)).toString());
   const [powerText, setPowerText] = useState(String(settings.power));
   // The suggested power (cross-validation) changes the setting from outside: the field follows.
   const [seenPower, setSeenPower] = useState(settings.power);
