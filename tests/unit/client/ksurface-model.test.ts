@@ -3,7 +3,7 @@ import proj4 from 'proj4';
 import { gridFor, cellCentre } from '@shared/geo/idw';
 import { decadeDomain, kColourScale, parseColour } from '@/features/kmap/colour';
 import { colourTable, formatArea, gridCorners, highKZones, paintSurface, pointsBounds, surfaceStats, valueAt } from '@/features/kmap/surface/model';
-import { decades, plotFrame, toPixelX, toPixelY, worstPredicted } from '@/features/kmap/surface/plot-math';
+import { decades, FAR_PAD, plotFrame, spreadLabels, toPixelX, toPixelY, worstPredicted } from '@/features/kmap/surface/plot-math';
 import { surfaceQueryString } from '@/features/kmap/surface/api';
 
 const UTM32N = '+proj=utm +zone=32 +datum=WGS84 +units=m +no_defs';
@@ -107,8 +107,12 @@ describe('the observed-versus-predicted plot', () => {
     expect(decades(f)).toEqual([-7, -6, -5, -4]);
     expect(toPixelX(f, -7)).toBe(f.margin);
     expect(toPixelY(f, -7)).toBe(260 - f.margin);
-    expect(toPixelX(f, -4)).toBe(260 - 8);
-    expect(toPixelY(f, -4)).toBe(8);
+    expect(toPixelX(f, -4)).toBe(260 - FAR_PAD);
+    expect(toPixelY(f, -4)).toBe(FAR_PAD);
+  });
+
+  it('keeps the worst wells’ names at least a line apart', () => {
+    expect(spreadLabels([50, 52, 120, 49])).toEqual([60, 71, 120, 49]);
   });
 
   it('names the worst-predicted wells by the size of their error, whatever its sign', () => {

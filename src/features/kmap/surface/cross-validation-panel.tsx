@@ -6,7 +6,7 @@ import { Button } from '@/components/ui/button';
 import { Spinner } from '@/components/ui/spinner';
 import { decadeLabel, formatLength } from '../format';
 import { COLOURS } from './layers';
-import { decades, plotFrame, toPixelX, toPixelY, worstPredicted } from './plot-math';
+import { decades, plotFrame, spreadLabels, toPixelX, toPixelY, worstPredicted } from './plot-math';
 
 const fixed = (v: number, d = 3) => (Object.is(v, -0) ? 0 : v).toFixed(d);
 const grouped = new Intl.NumberFormat('en', { minimumFractionDigits: 1, maximumFractionDigits: 1 });
@@ -112,7 +112,10 @@ function ObservedPredictedPlot({ cv, kUnit }: { cv: CrossValidation; kUnit: KUni
     cv.wells.flatMap((w) => [w.observedLog10K + offset, w.predictedLog10K + offset]),
     size,
   );
-  const worst = new Set(worstPredicted(cv.wells, 3).map((w) => w.wellId));
+  const worstList = worstPredicted(cv.wells, 3);
+  const worst = new Set(worstList.map((w) => w.wellId));
+  const labelYs = spreadLabels(worstList.map((w) => toPixelY(frame, w.predictedLog10K + offset) - 5));
+  const labelY = new Map(worstList.map((w, i) => [w.wellId, labelYs[i]]));
   const ds = decades(frame);
   const lo = toPixelX(frame, frame.from);
   const hi = toPixelX(frame, frame.to);
@@ -143,7 +146,14 @@ function ObservedPredictedPlot({ cv, kUnit }: { cv: CrossValidation; kUnit: KUni
                 <title>{`${w.name}: observed ${(10 ** (w.observedLog10K + offset)).toExponential(2)}, predicted ${(10 ** (w.predictedLog10K + offset)).toExponential(2)} ${kUnit}`}</title>
               </circle>
               {bad ? (
-                <text x={x + 6} y={y - 5} fontSize="10" fill="#7f1d1d" data-worst-well={w.name}>
+                <text
+                  x={x > size * 0.65 ? x - 6 : x + 6}
+                  textAnchor={x > size * 0.65 ? 'end' : 'start'}
+                  y={labelY.get(w.wellId) ?? y - 5}
+                  fontSize="10"
+                  fill="#7f1d1d"
+                  data-worst-well={w.name}
+                >
                   {w.name}
                 </text>
               ) : null}

@@ -19,13 +19,28 @@ export function plotFrame(values: readonly number[], size: number, margin = 36):
   return { from, to, size, margin };
 }
 
+/** Room beyond the axes' far ends, for the last tick label. */
+export const FAR_PAD = 16;
+
 /** Pixel along an axis: x grows to the right, y grows upward (SVG y is flipped here). */
 export function toPixelX(f: PlotFrame, log10: number): number {
-  return f.margin + ((log10 - f.from) / (f.to - f.from)) * (f.size - f.margin - 8);
+  return f.margin + ((log10 - f.from) / (f.to - f.from)) * (f.size - f.margin - FAR_PAD);
 }
 
 export function toPixelY(f: PlotFrame, log10: number): number {
-  return f.size - f.margin - ((log10 - f.from) / (f.to - f.from)) * (f.size - f.margin - 8);
+  return f.size - f.margin - ((log10 - f.from) / (f.to - f.from)) * (f.size - f.margin - FAR_PAD);
+}
+
+/** Label heights (SVG y, downward) pushed apart so that no two are closer than `gap`, in the order given by y. */
+export function spreadLabels(ys: readonly number[], gap = 11): number[] {
+  const order = ys.map((y, i) => ({ y, i })).sort((a, b) => a.y - b.y);
+  const out = new Array<number>(ys.length);
+  let last = -Infinity;
+  for (const { y, i } of order) {
+    last = Math.max(y, last + gap);
+    out[i] = last;
+  }
+  return out;
 }
 
 export function decades(f: PlotFrame): number[] {
