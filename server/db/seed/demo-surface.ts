@@ -57,7 +57,8 @@ export async function seedDemoSurface(ds: DataSource, config: Config): Promise<v
   await createSketchesService(ctx).create(site.id, analyst.id, captureSketchBodySchema.parse({
     name: DEMO_SKETCH_NAME,
     x, y,
-    rate: { value: 2, unit: 'L/s' },
+    // A modest trial rate: the demo gradient is gentle (~0.001), so 0.4 L/s already catches ~200 m far upgradient.
+    rate: { value: 0.4, unit: 'L/s' },
     thicknessM: 9.6,
     gradient: { mode: 'wells', wellIds: wells.filter((w) => GRADIENT_WELLS.includes(w.name)).map((w) => w.id) },
     notes: 'Invented demo sketch: K from the surface at the spot, gradient from four wells’ static levels.',
