@@ -34,7 +34,7 @@ export function toPixelY(f: PlotFrame, log10: number): number {
 /** Label heights (SVG y, downward) pushed apart so that no two are closer than `gap`, in the order given by y. */
 export function spreadLabels(ys: readonly number[], gap = 11): number[] {
   const order = ys.map((y, i) => ({ y, i })).sort((a, b) => a.y - b.y);
-  const out = new Array<number>(ys.length);
+  const out: number[] = Array.from({ length: ys.length }, () => 0);
   let last = -Infinity;
   for (const { y, i } of order) {
     last = Math.max(y, last + gap);
