@@ -68,6 +68,19 @@ function weightFn(power: number): (d2: number) => number {
   if (power === 1) return (d2) => 1 / Math.sqrt(d2);
   if (power === 3) return (d2) => 1 / (d2 * Math.sqrt(d2));
   if (power === 4) return (d2) => 1 / (d2 * d2);
+  // Half-integer powers (the cross-validation set 1, 1.5, 2, 2.5, 3 and the like) with square roots
+  // and products, several times faster than Math.pow.
+  const twice = power * 2;
+  if (Number.isInteger(twice) && twice <= 16) {
+    const whole = Math.floor(power);
+    const half = twice % 2 === 1;
+    return (d2) => {
+      const d = Math.sqrt(d2);
+      let v = half ? Math.sqrt(d) : 1;
+      for (let i = 0; i < whole; i++) v *= d;
+      return 1 / v;
+    };
+  }
   const e = -power / 2;
   return (d2) => Math.pow(d2, e);
 }

@@ -130,7 +130,8 @@ export function SurfacePanel(props: Props) {
             inputMode="decimal"
             min={0.5}
             max={6}
-            step={0.1}
+            // Steps through the powers cross-validation compares; any other value can still be typed.
+            step={0.5}
             value={powerText}
             onChange={(e) => {
               setPowerText(e.target.value);
