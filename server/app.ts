@@ -31,6 +31,7 @@ import { membersRoutes } from './features/members/members.router';
 import { recordsRoutes } from './features/records/records.router';
 import { sitesRoutes } from './features/sites/sites.router';
 import { adminRoutes } from './features/users/users.router';
+import { viewerLinksRoutes } from './features/viewer-links/viewer-links.router';
 import { wellsRoutes } from './features/wells/wells.router';
 
 export const VERSION = '0.1.0';
@@ -149,6 +150,7 @@ export function createApp({ config, ds, mailer, mailOptions, log = (m, e) => con
     ...outlinesRoutes(ctx),
     ...kSurfaceRoutes(ctx),
     ...sketchesRoutes(ctx),
+    ...viewerLinksRoutes(ctx),
     ...basemapApiRoutes(ctx, basemaps),
     ...adminRoutes(ctx, store, auth.sendReset, mail),
   ];

@@ -50,6 +50,14 @@ export const byFit: SiteLocator = async (req, ctx) => {
   return rows[0]?.siteId ?? null;
 };
 
+/** A viewer link's site, from req.params.linkId; null (so 404) when the link does not exist. */
+export const byViewerLink: SiteLocator = async (req, ctx) => {
+  const linkId = String(req.params.linkId ?? '');
+  if (!/^[0-9a-f-]{36}$/i.test(linkId)) return null;
+  const rows: { siteId: string }[] = await ctx.ds.query('SELECT "siteId" FROM "viewer_links" WHERE "id" = ?', [linkId]);
+  return rows[0]?.siteId ?? null;
+};
+
 const anyRole = SITE_ROLES;
 const PUBLIC: PolicyRule = { kind: 'public' };
 const SIGNED_IN: PolicyRule = { kind: 'signedIn' };
@@ -132,6 +140,18 @@ export const policyTable: Record<string, PolicyRule> = {
   'GET /api/sites/:siteId/capture-sketches.geojson': site(anyRole),
   'GET /api/sites/:siteId/capture-sketches/:sketchId': site(anyRole),
   'DELETE /api/sites/:siteId/capture-sketches/:sketchId': site(['Lead', 'Analyst']),
+
+  'GET /api/sites/:siteId/viewer-links': site(['Lead']),
+  'POST /api/sites/:siteId/viewer-links': site(['Lead']),
+  'DELETE /api/viewer-links/:linkId': site(['Lead'], byViewerLink),
+  'POST /api/viewer-links/:linkId/email': site(['Lead'], byViewerLink),
+  // A viewer link's token: no session; each handler resolves the token itself (one function, one
+  // 404 for unknown, expired and revoked) and reads only what the link shows.
+  'GET /api/view/:token': PUBLIC,
+  'GET /api/view/:token/wells': PUBLIC,
+  'GET /api/view/:token/k-surface': PUBLIC,
+  'GET /api/view/:token/outlines': PUBLIC,
+  'GET /api/view/:token/capture-sketches': PUBLIC,
 
   'GET /api/admin/users': ADMIN,
   'POST /api/admin/users': ADMIN,

@@ -16,6 +16,7 @@ import { RecordEntity } from '../features/records/record.entity';
 import { Membership } from '../features/sites/membership.entity';
 import { Site } from '../features/sites/site.entity';
 import { User } from '../features/users/user.entity';
+import { ViewerLinkEntity } from '../features/viewer-links/viewer-link.entity';
 import { Well } from '../features/wells/well.entity';
 
-export const entities = [User, SessionRow, Site, Membership, Invitation, PasswordReset, OutboxMessage, LocalMail, MailRequest, Well, RecordEntity, RecordFile, RecordSeries, FitEntity, FitEventEntity, MapVersion, Basemap, OutlineEntity, CaptureSketchEntity];
+export const entities = [User, SessionRow, Site, Membership, Invitation, PasswordReset, OutboxMessage, LocalMail, MailRequest, Well, RecordEntity, RecordFile, RecordSeries, FitEntity, FitEventEntity, MapVersion, Basemap, OutlineEntity, CaptureSketchEntity, ViewerLinkEntity];

@@ -33,7 +33,7 @@ export const userPatchSchema = z.object({
 });
 export type UserPatch = z.infer<typeof userPatchSchema>;
 
-export const MAIL_KINDS = ['invitation', 'password-reset', 'fit-submitted', 'fit-checked', 'fit-sent-back'] as const;
+export const MAIL_KINDS = ['invitation', 'password-reset', 'fit-submitted', 'fit-checked', 'fit-sent-back', 'viewer-link'] as const;
 export type MailKind = (typeof MAIL_KINDS)[number];
 export const MAIL_STATUSES = ['pending', 'sending', 'sent', 'failed'] as const;
 export type MailStatus = (typeof MAIL_STATUSES)[number];

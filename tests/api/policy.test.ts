@@ -19,6 +19,7 @@ let demoWellId = '';
 const spareWellIds: string[] = [];
 let recordId = '';
 let fitId = '';
+let viewerLinkId = '';
 const spareRecordIds: string[] = [];
 
 async function clientFor(p: Principal): Promise<ApiClient> {
@@ -43,6 +44,7 @@ beforeAll(async () => {
   recordId = (await insertSyntheticRecord(ts.ds, demoWellId, { kMetersPerSecond: 2e-5 })).recordId;
   for (let i = 0; i < 2 * PRINCIPALS.length; i++) spareRecordIds.push((await insertSyntheticRecord(ts.ds, demoWellId, { kMetersPerSecond: 2e-5 })).recordId);
   fitId = (await clients.get('Analyst')!.post(`/api/records/${recordId}/fits`, { method: 'hvorslev' }).expect(201)).body.id;
+  viewerLinkId = (await clients.get('Lead')!.post(`/api/sites/${ts.demoSiteId}/viewer-links`, { label: 'Policy walk', layers: { wells: true } }).expect(201)).body.id;
 });
 afterAll(async () => ts.close());
 
@@ -70,6 +72,7 @@ function concretePath(path: string, method = 'GET'): string {
     .replace(':wellId', () => (method.toUpperCase() === 'DELETE' ? (spareWellIds.pop() ?? randomUUID()) : demoWellId))
     .replace(':recordId', () => (method.toUpperCase() === 'DELETE' ? (spareRecordIds.pop() ?? randomUUID()) : recordId))
     .replace(':fitId', fitId)
+    .replace(':linkId', () => viewerLinkId)
     .replace(':code', '32632')
     .replace(':token', 'policy-test-token-0000')
     // A tile of the invented demo area at zoom 14, of the built-in basemap.
