@@ -1,11 +1,9 @@
 /// <reference lib="dom" />
-import { randomUUID } from 'node:crypto';
 import fs from 'node:fs';
 import os from 'node:os';
 import type { Page } from 'playwright-core';
-import { Membership } from '../../server/features/sites/membership.entity';
-import { Well } from '../../server/features/wells/well.entity';
 import { startE2E } from '../e2e/driver';
+import { scatteredSite } from '../e2e/scattered-site';
 import { demoEmail } from '../support/test-server';
 
 const WELLS = 100;
@@ -76,29 +74,7 @@ export async function run(): Promise<void> {
   }
   const e2e = await startE2E();
   try {
-    const admin = await e2e.ts.as(demoEmail('Admin'));
-    const site = (await admin.post('/api/sites', { name: 'Surface bench (generated)', epsgCode: 32632, displayUnits: 'SI' }).expect(201)).body;
-    const ds = e2e.ts.ds;
-    const analystId: string = (await ds.query(`SELECT id FROM users WHERE email = ?`, [demoEmail('Analyst')]))[0].id;
-    await ds.getRepository(Membership).insert({ siteId: site.id, userId: analystId, role: 'Analyst' });
-    const template = await ds.getRepository(Well).findOneByOrFail({ siteId: e2e.ts.demoSiteId });
-    const recordId: string = (await ds.query(`SELECT id FROM records LIMIT 1`))[0].id;
-    // 100 invented wells scattered over a square of about 1 km, each with one Checked fit (the e2e test's site).
-    let seed = 7;
-    const rand = () => ((seed = (seed * 16807) % 2147483647) - 1) / 2147483646;
-    await ds.transaction(async (m) => {
-      const now = new Date().toISOString();
-      for (let j = 0; j < WELLS; j++) {
-        const { id: _i, createdAt: _c, updatedAt: _u, ...t } = template;
-        const id = randomUUID();
-        await m.getRepository(Well).insert({ ...t, id, siteId: site.id, name: `S-${j}`, lon: t.lon + rand() * 0.013, lat: t.lat + rand() * 0.009 });
-        await m.query(
-          `INSERT INTO fits (id, siteId, wellId, recordId, chainId, revision, status, method, line, geometry, options, note, result, flags, kMetersPerSecond, preparedById, createdAt, updatedAt)
-           VALUES (?, ?, ?, ?, ?, 1, 'checked', 'hvorslev', 'anchored', '{}', '{}', '', '{}', '[]', ?, ?, ?, ?)`,
-          [`s-${j}`, site.id, id, recordId, `s-${j}`, 10 ** (-6 + 3 * rand()), analystId, now, now],
-        );
-      }
-    });
+    const site = await scatteredSite(e2e, 'Surface bench (generated)', WELLS);
 
     const page = await e2e.newPage();
     const errors: string[] = [];

@@ -1,5 +1,4 @@
 /// <reference lib="dom" />
-import { randomUUID } from 'node:crypto';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
@@ -7,10 +6,9 @@ import { booleanPointInPolygon, point } from '@turf/turf';
 import proj4 from 'proj4';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { Membership } from '../../server/features/sites/membership.entity';
-import { Well } from '../../server/features/wells/well.entity';
 import { demoEmail } from '../support/test-server';
 import { SCREENSHOTS, startE2E, type E2E } from './driver';
+import { scatteredSite } from './scattered-site';
 
 type RGB = [number, number, number];
 type MapFeature = { id: string; geometry: { coordinates: [number, number] }; properties: { name: string; wellK: number | null; log10K: number | null } };
@@ -393,29 +391,7 @@ describe('the K surface, outlines and capture sketches in the browser', () => {
   });
 
   it('re-renders a 200 × 200 surface from 100 wells each time the power changes', { timeout: 180_000 }, async () => {
-    const admin = await api('Admin');
-    const site = (await admin.post('/api/sites', { name: 'Surface timing (generated)', epsgCode: 32632, displayUnits: 'SI' }).expect(201)).body;
-    const ds = e2e.ts.ds;
-    const analystId: string = (await ds.query(`SELECT id FROM users WHERE email = ?`, [demoEmail('Analyst')]))[0].id;
-    await ds.getRepository(Membership).insert({ siteId: site.id, userId: analystId, role: 'Analyst' });
-    const template = await ds.getRepository(Well).findOneByOrFail({ siteId: e2e.ts.demoSiteId });
-    const recordId: string = (await ds.query(`SELECT id FROM records LIMIT 1`))[0].id;
-    // 100 invented wells scattered over a square of about 1 km, each with one Checked fit.
-    let seed = 7;
-    const rand = () => ((seed = (seed * 16807) % 2147483647) - 1) / 2147483646;
-    await ds.transaction(async (m) => {
-      const now = new Date().toISOString();
-      for (let j = 0; j < 100; j++) {
-        const { id: _i, createdAt: _c, updatedAt: _u, ...t } = template;
-        const id = randomUUID();
-        await m.getRepository(Well).insert({ ...t, id, siteId: site.id, name: `S-${j}`, lon: t.lon + rand() * 0.013, lat: t.lat + rand() * 0.009 });
-        await m.query(
-          `INSERT INTO fits (id, siteId, wellId, recordId, chainId, revision, status, method, line, geometry, options, note, result, flags, kMetersPerSecond, preparedById, createdAt, updatedAt)
-           VALUES (?, ?, ?, ?, ?, 1, 'checked', 'hvorslev', 'anchored', '{}', '{}', '', '{}', '[]', ?, ?, ?, ?)`,
-          [`s-${j}`, site.id, id, recordId, `s-${j}`, 10 ** (-6 + 3 * rand()), analystId, now, now],
-        );
-      }
-    });
+    const site = await scatteredSite(e2e, 'Surface timing (generated)', 100);
 
     const page = await e2e.newPage();
     await e2e.signIn(page, demoEmail('Analyst'));
