@@ -31,7 +31,7 @@ import { membersRoutes } from './features/members/members.router';
 import { recordsRoutes } from './features/records/records.router';
 import { sitesRoutes } from './features/sites/sites.router';
 import { adminRoutes } from './features/users/users.router';
-import { viewerLinksRoutes } from './features/viewer-links/viewer-links.router';
+import { mountViewPage, viewerLinksRoutes } from './features/viewer-links/viewer-links.router';
 import { wellsRoutes } from './features/wells/wells.router';
 
 export const VERSION = '0.1.0';
@@ -164,6 +164,8 @@ export function createApp({ config, ds, mailer, mailOptions, log = (m, e) => con
   });
 
   const dist = path.resolve(config.CLIENT_DIST);
+  // Before the static files and the page fallback: a viewer link's page answers 404 for a dead token.
+  mountViewPage(app, ctx, path.join(dist, 'index.html'));
   if (fs.existsSync(path.join(dist, 'index.html'))) {
     app.use(express.static(dist, { index: false, maxAge: '1h', setHeaders: (res, file) => {
       if (file.includes(`${path.sep}assets${path.sep}`)) res.setHeader('Cache-Control', 'public, max-age=31536000, immutable');

@@ -31,6 +31,8 @@ export const configSchema = z.object({
   /** Failed sign-ins from one address (any accounts) after which each attempt is delayed, never refused. */
   LOGIN_SLOWDOWN_AFTER_PER_ADDRESS: z.coerce.number().int().positive().default(50),
   LOGIN_WINDOW_SECONDS: duration.default(15 * 60),
+  /** Requests to viewer-link pages and their API (/view/…, /api/view/…) per client address per minute. */
+  VIEW_REQUESTS_PER_MINUTE: z.coerce.number().int().positive().default(600),
   INVITATION_TTL_HOURS: z.coerce.number().positive().default(72),
   RESET_TTL_HOURS: z.coerce.number().positive().default(1),
   SMTP_HOST: z.string().default('127.0.0.1'),

@@ -1,7 +1,8 @@
 import { z } from 'zod';
 import { isoDateTime } from './common';
-import { kSurfaceQuerySchema } from './ksurface';
+import { captureSketchSchema, kSurfaceQuerySchema, outlineGeometrySchema } from './ksurface';
 import { mapWellPropertiesSchema, mapWellsSchema } from './map';
+import { displayUnitsSchema } from './sites';
 
 /*
  * Viewer links: a read-only, revocable, expiring link to a site's K map for people without an
@@ -96,7 +97,7 @@ export const viewInfoSchema = z.object({
   siteName: z.string(),
   epsgCode: z.number().int(),
   crsName: z.string(),
-  displayUnits: z.string(),
+  displayUnits: displayUnitsSchema,
   basemapStyleUrl: z.string(),
   layers: z.object({ wells: z.boolean(), surface: z.boolean(), outlines: z.boolean(), sketches: z.boolean() }),
   showNames: z.boolean(),
@@ -114,10 +115,12 @@ export const viewWellsSchema = mapWellsSchema.extend({
 });
 export type ViewWells = z.infer<typeof viewWellsSchema>;
 
-export const viewOutlineSchema = z.object({ id: z.string(), name: z.string(), geometry: z.unknown(), areaM2: z.number() });
+export const viewOutlineSchema = z.object({ id: z.string(), name: z.string(), geometry: outlineGeometrySchema, areaM2: z.number() });
 export const viewOutlineListSchema = z.object({ outlines: z.array(viewOutlineSchema) });
 export const viewSketchSchema = z.object({
   id: z.string(), name: z.string(), lon: z.number(), lat: z.number(), x: z.number(), y: z.number(),
-  results: z.unknown(), createdAt: isoDateTime, cautions: z.array(z.string()),
+  results: captureSketchSchema.shape.results, createdAt: isoDateTime, cautions: z.array(z.string()),
 });
 export const viewSketchListSchema = z.object({ sketches: z.array(viewSketchSchema) });
+export type ViewSketch = z.infer<typeof viewSketchSchema>;
+export type ViewOutline = z.infer<typeof viewOutlineSchema>;

@@ -196,10 +196,50 @@ describe('viewer links: what a token opens', () => {
     }
   });
 
-  it('limits view requests per client address, answering the one error shape', async () => {
-    const { VIEW_RATE_LIMIT_PER_MINUTE } = await import('../../server/features/viewer-links/viewer-links.router');
-    expect(VIEW_RATE_LIMIT_PER_MINUTE).toBe(600);
-    const r = await ts.client().get('/api/view/short');
-    expect(r.headers['ratelimit-policy'] ?? r.headers['ratelimit']).toBeDefined();
+  it('limits view requests per client address (page and API), answering the one error shape with Retry-After', async () => {
+    const small = await startTestServer({ VIEW_REQUESTS_PER_MINUTE: '3' });
+    try {
+      const c = small.client();
+      for (let i = 0; i < 3; i++) expect((await c.get('/api/view/short')).status).toBe(404);
+      const r = await c.get('/api/view/short');
+      expect(r.status).toBe(429);
+      expect(r.body).toEqual({ error: { code: 'RATE_LIMITED', message: expect.stringMatching(/viewer/) } });
+      expect(r.headers['retry-after']).toBe('60');
+      for (let i = 0; i < 3; i++) expect((await c.get('/view/short')).status).toBe(404);
+      expect((await c.get('/view/short')).status).toBe(429);
+      // Other routes are not held back by the view limit.
+      expect((await c.get('/api/health')).status).toBe(200);
+    } finally {
+      await small.close();
+    }
+  });
+});
+
+describe('viewer links: the page', () => {
+  it('serves the page at /view/:token with 200 for a working link, no referrer and no-store, without counting a view', async () => {
+    const { link, token } = await makeLink();
+    const r = await ts.client().get(`/view/${token}`);
+    expect(r.status).toBe(200);
+    expect(r.headers['content-type']).toMatch(/text\/html/);
+    expect(r.headers['referrer-policy']).toBe('no-referrer');
+    expect(r.headers['cache-control']).toBe('no-store');
+    const listed = (await lead.get(`/api/sites/${ts.demoSiteId}/viewer-links`).expect(200)).body.links.find((l: { id: string }) => l.id === link.id);
+    expect(listed.viewCount).toBe(0);
+  });
+
+  it('answers the page of an unknown, malformed, expired or revoked link with status 404 and the identical page', async () => {
+    const expired = await makeLink();
+    await ts.ds.getRepository(ViewerLinkEntity).update({ id: expired.link.id }, { expiresAt: new Date(Date.now() - 1000) });
+    const revoked = await makeLink();
+    await ts.client().get(`/view/${revoked.token}`).expect(200);
+    await lead.delete(`/api/viewer-links/${revoked.link.id}`).expect(204);
+    const answers = [];
+    for (const t of [Buffer.alloc(32, 9).toString('base64url'), 'x', expired.token, revoked.token]) {
+      const r = await ts.client().get(`/view/${t}`);
+      answers.push({ status: r.status, body: r.text, type: r.headers['content-type'], referrer: r.headers['referrer-policy'], cache: r.headers['cache-control'] });
+    }
+    expect(answers[0]).toMatchObject({ status: 404, referrer: 'no-referrer', cache: 'no-store' });
+    expect(answers[0].type).toMatch(/text\/html/);
+    for (const a of answers) expect(a).toEqual(answers[0]);
   });
 });

@@ -1,4 +1,5 @@
-import type { RequestHandler } from 'express';
+import fs from 'node:fs';
+import type { RequestHandler, Router } from 'express';
 import { ipKeyGenerator, rateLimit } from 'express-rate-limit';
 import { z } from 'zod';
 import { errorBodySchema } from '@shared/schemas/common';
@@ -25,14 +26,11 @@ const linkParams = z.object({ linkId: z.string().uuid('Link id must be a UUID') 
 const tokenParams = z.object({ token: z.string() });
 const NOT_FOUND = err('Unknown, expired or revoked link, or a layer the link does not show: one answer for all');
 
-/** View requests per client address per minute. */
-export const VIEW_RATE_LIMIT_PER_MINUTE = 600;
-
 /**
  * The view routes' own middleware: no referrer (the token is in the page's URL), nothing stored
  * by a cache, and a limit per client address answered in the one error shape.
  */
-function viewGuards(): RequestHandler[] {
+function viewGuards(perMinute: number): RequestHandler[] {
   const headers: RequestHandler = (_req, res, next) => {
     res.setHeader('Referrer-Policy', 'no-referrer');
     res.setHeader('Cache-Control', 'no-store');
@@ -40,7 +38,7 @@ function viewGuards(): RequestHandler[] {
   };
   const limiter = rateLimit({
     windowMs: 60_000,
-    limit: VIEW_RATE_LIMIT_PER_MINUTE,
+    limit: perMinute,
     standardHeaders: 'draft-7',
     legacyHeaders: false,
     keyGenerator: (req) => `view:${ipKeyGenerator(req.ip ?? '')}`,
@@ -52,9 +50,32 @@ function viewGuards(): RequestHandler[] {
   return [headers, limiter];
 }
 
+/** The page shell when the client has not been built (API tests, a server-only checkout). */
+const NO_CLIENT_PAGE = (found: boolean) =>
+  `<!doctype html><html lang="en"><head><meta charset="utf-8"><title>Kfield</title></head><body><h1>${found ? 'Kfield viewer' : 'This viewer link does not exist or no longer works'}</h1></body></html>`;
+
+/**
+ * `GET /view/:token`, the read-only page: the client's index.html, answered 200 when the token
+ * opens a view and 404 (the same page, which then shows its 404 screen) when it is unknown,
+ * expired or revoked. Same guards as the view API: no referrer, no-store, the per-address limit.
+ */
+export function mountViewPage(router: Router, ctx: AppContext, indexHtml: string): void {
+  const svc = createViewerLinksService(ctx);
+  router.get('/view/:token', ...viewGuards(ctx.config.VIEW_REQUESTS_PER_MINUTE), async (req, res, next) => {
+    try {
+      const found = await svc.opens(String(req.params.token));
+      res.status(found ? 200 : 404);
+      if (!fs.existsSync(indexHtml)) return void res.type('html').send(NO_CLIENT_PAGE(found));
+      res.sendFile(indexHtml, { cacheControl: false, lastModified: false, etag: false });
+    } catch (e) {
+      next(e);
+    }
+  });
+}
+
 export function viewerLinksRoutes(ctx: AppContext): RouteDef[] {
   const svc = createViewerLinksService(ctx);
-  const before = viewGuards();
+  const before = viewGuards(ctx.config.VIEW_REQUESTS_PER_MINUTE);
   const token = (req: { params: Record<string, unknown> }) => String(req.params.token);
   return [
     {

@@ -137,6 +137,17 @@ export function createViewerLinksService(ctx: AppContext) {
     return link;
   }
 
+  /** Whether a token opens a view now (the page's HTML status); counts nothing. */
+  async function opens(token: string): Promise<boolean> {
+    try {
+      await resolve(token);
+      return true;
+    } catch (e) {
+      if (e instanceof AppError && e.status === 404) return false;
+      throw e;
+    }
+  }
+
   async function info(token: string): Promise<ViewInfo> {
     const link = await resolve(token);
     const site = await ds.getRepository(Site).findOneByOrFail({ id: link.siteId });
@@ -193,5 +204,5 @@ export function createViewerLinksService(ctx: AppContext) {
     return { sketches: rows.map((s) => ({ id: s.id, name: s.name, lon: s.lon, lat: s.lat, x: s.x, y: s.y, results: s.results, createdAt: s.createdAt.toISOString(), cautions: [...CAUTIONS] })) };
   }
 
-  return { create, list, revoke, email, resolve, info, wells, surface, outlines, sketches };
+  return { create, list, revoke, email, resolve, opens, info, wells, surface, outlines, sketches };
 }

@@ -22,6 +22,7 @@ import { FIT_MAX_ZOOM, fitPadding, KMap, type LayerVisibility, type SelectMode }
 import { KLegend } from './k-legend';
 import { KMapFilters } from './k-map-filters';
 import { MapOverlay } from './map-overlay';
+import { useWellSelection } from './use-well-selection';
 import { WellFinder } from './well-finder';
 import { WellPanel } from './well-panel';
 import { Panel } from './panel';
@@ -82,7 +83,6 @@ export function KMapPage({ site, wells, crsUnit, basemaps, canEdit }: Props) {
   const [kUnit, setKUnit] = useSessionState(`kfield.kmap.kUnit.${site.id}`, defaultMapKUnit(site.displayUnits), isMapKUnit);
   const [filter, setFilter] = useState<KMapFilter>(NO_FILTER);
   const [hoveredBin, setHoveredBin] = useState(-1);
-  const [selectedIds, setSelectedIds] = useState<string[]>([]);
   const [focusedId, setFocusedId] = useState<string | null>(null);
   const [visibility, setVisibility] = useState<LayerVisibility>({ wells: true, unanalysed: true, labels: true });
   const [style, setStyle] = useState({ hasGlyphs: false, attribution: '' });
@@ -114,37 +114,22 @@ export function KMapPage({ site, wells, crsUnit, basemaps, canEdit }: Props) {
   const siteBounds = useMemo(() => wells.bbox ?? boundsOf(all), [wells.bbox, all]);
   const unanalysedCount = useMemo(() => shown.filter((w) => !hasWellK(w.properties)).length, [shown]);
 
-  const byId = useMemo(() => new Map(data.features.map((f) => [f.properties.id, f.properties])), [data]);
-  const selectedShown = useMemo(() => selectedIds.filter((id) => byId.has(id)), [selectedIds, byId]);
-  const selectedPerBin = useMemo(() => {
-    const counts = Array.from({ length: bins.length }, () => 0);
-    for (const id of selectedShown) {
-      const bin = byId.get(id)?.bin ?? -1;
-      if (bin >= 0) counts[bin]++;
-    }
-    return counts;
-  }, [selectedShown, byId, bins.length]);
+  const selection = useWellSelection(data, bins.length);
+  const { byId, selected: selectedShown, selectedPerBin } = selection;
   const top = useWorkspaceTop();
   const ws = useWorkspace({ site, all, shown, filter, crsUnit, scale, mapRef, kUnit });
   const focused = focusedId !== null && byId.has(focusedId) ? byId.get(focusedId)! : selectedShown.length > 0 ? byId.get(selectedShown[selectedShown.length - 1])! : null;
 
-  const select = useCallback((ids: string[], mode: SelectMode) => {
-    setSelectedIds((current) => {
-      if (mode === 'replace') return ids;
-      if (mode === 'add') return [...new Set([...current, ...ids])];
-      const next = new Set(current);
-      for (const id of ids) {
-        if (next.has(id)) next.delete(id);
-        else next.add(id);
-      }
-      return [...next];
-    });
-    setFocusedId(mode === 'add' ? null : (ids[ids.length - 1] ?? null));
-  }, []);
+  const select = useCallback(
+    (ids: string[], mode: SelectMode) => {
+      selection.select(ids, mode);
+      setFocusedId(mode === 'add' ? null : (ids[ids.length - 1] ?? null));
+    },
+    [selection.select],
+  );
 
   const selectBin = (bin: number, add: boolean) => {
-    const ids = data.features.filter((f) => f.properties.bin === bin).map((f) => f.properties.id);
-    select(ids, add ? 'add' : 'replace');
+    select(selection.binIds(bin), add ? 'add' : 'replace');
     setFocusedId(null);
   };
 

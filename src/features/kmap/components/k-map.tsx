@@ -44,6 +44,8 @@ export interface KMapProps {
   onPlace?: ((lon: number, lat: number) => void) | null;
   /** While drawing an outline a click belongs to the drawing, not to the selection. */
   selectionPaused?: boolean;
+  /** The padding the site is fitted with at start (default: room for the workspace's floating panels). */
+  padding?: number;
 }
 
 export const FIT_PADDING = 48;
@@ -61,7 +63,7 @@ const visible = (on: boolean) => (on ? 'visible' : 'none') as 'visible' | 'none'
 export function KMap(props: KMapProps) {
   const { mapRef, mapStyle, data, colour, initialBounds, hoveredBin, selectedIds, onSelect, visibility, displayUnits, cursor, onStyleReady, hasGlyphs, labelMinZoom, sizes } =
     props;
-  const { overlays, onPlace = null, selectionPaused = false } = props;
+  const { overlays, onPlace = null, selectionPaused = false, padding } = props;
   // data-map-state says when the map has finished drawing (browser tests wait for "idle").
   const [state, setState] = useState<'loading' | 'idle'>('loading');
 
@@ -97,7 +99,7 @@ export function KMap(props: KMapProps) {
         mapStyle={mapStyle}
         initialViewState={
           initialBounds
-            ? { bounds: initialBounds, fitBoundsOptions: { padding: fitPadding(), maxZoom: FIT_MAX_ZOOM } }
+            ? { bounds: initialBounds, fitBoundsOptions: { padding: padding ?? fitPadding(), maxZoom: FIT_MAX_ZOOM } }
             : { longitude: 0, latitude: 20, zoom: 1.5 }
         }
         style={{ width: '100%', height: '100%' }}

@@ -16,7 +16,8 @@ const METHOD_LABELS: Record<Fit['method'], string> = { hvorslev: 'Hvorslev', 'bo
 const STATUS_TONES = { draft: 'neutral', 'awaiting-check': 'warning', checked: 'accent', 'sent-back': 'danger' } as const;
 const CONDITION_LABELS = { confined: 'Confined', unconfined: 'Unconfined', leaky: 'Leaky' } as const;
 
-function Row({ label, children }: { label: string; children: ReactNode }) {
+/** One label and value of a well's details. */
+export function Row({ label, children }: { label: string; children: ReactNode }) {
   return (
     <div className="flex justify-between gap-3 py-1">
       <dt className="text-slate-600">{label}</dt>
@@ -42,22 +43,7 @@ export function WellPanel({ siteId, well, units, kUnit }: { siteId: string; well
         </Link>
       </header>
 
-      <div className="rounded-md bg-slate-50 px-3 py-2 ring-1 ring-slate-200">
-        <p className="text-xs font-medium tracking-wide text-slate-600 uppercase">Well K</p>
-        {well.wellK !== null ? (
-          <>
-            <p className="text-lg font-semibold text-slate-900 tabular-nums" data-testid="well-k">
-              {formatK(well.wellK, kUnit)}
-            </p>
-            <p className="text-xs text-slate-600">
-              Geometric mean of {well.count} Checked {well.count === 1 ? 'fit' : 'fits'}
-              {well.log10StdDev !== null && well.count > 1 ? `; spread ${formatSpread(well.log10StdDev)} (± ${well.log10StdDev.toFixed(2)} in log10 K)` : ''}
-            </p>
-          </>
-        ) : (
-          <p className="text-slate-700">No Checked fit yet: drawn as a grey ring.</p>
-        )}
-      </div>
+      <WellKBox well={well} kUnit={kUnit} />
 
       <section aria-label="Screen interval">
         <h4 className="text-xs font-semibold tracking-wide text-slate-600 uppercase">Screen interval</h4>
@@ -123,5 +109,27 @@ export function WellPanel({ siteId, well, units, kUnit }: { siteId: string; well
         )}
       </section>
     </article>
+  );
+}
+
+/** A well's Well K with the number of Checked fits behind it and their spread. */
+export function WellKBox({ well, kUnit }: { well: Pick<MapWellProperties, 'wellK' | 'count' | 'log10StdDev'>; kUnit: KUnit }) {
+  return (
+    <div className="rounded-md bg-slate-50 px-3 py-2 ring-1 ring-slate-200">
+      <p className="text-xs font-medium tracking-wide text-slate-600 uppercase">Well K</p>
+      {well.wellK !== null ? (
+        <>
+          <p className="text-lg font-semibold text-slate-900 tabular-nums" data-testid="well-k">
+            {formatK(well.wellK, kUnit)}
+          </p>
+          <p className="text-xs text-slate-600">
+            Geometric mean of {well.count} Checked {well.count === 1 ? 'fit' : 'fits'}
+            {well.log10StdDev !== null && well.count > 1 ? `; spread ${formatSpread(well.log10StdDev)} (± ${well.log10StdDev.toFixed(2)} in log10 K)` : ''}
+          </p>
+        </>
+      ) : (
+        <p className="text-slate-700">No Checked fit yet: drawn as a grey ring.</p>
+      )}
+    </div>
   );
 }

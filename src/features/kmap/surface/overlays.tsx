@@ -21,26 +21,50 @@ import {
 } from './layers';
 import type { Workspace } from './use-workspace';
 
-type Corners = [[number, number], [number, number], [number, number], [number, number]];
+export type Corners = [[number, number], [number, number], [number, number], [number, number]];
 /** react-map-gl's types leave out canvas sources, which it passes through to maplibre all the same. */
 const canvasSource = (canvas: HTMLCanvasElement, coordinates: Corners) => ({ type: 'canvas', canvas, animate: false, coordinates }) as unknown as SourceProps;
 const EMPTY: FeatureCollection = { type: 'FeatureCollection', features: [] };
 const BELOW_WELLS = LAYER_IDS.selectedHalo;
 const visible = (on: boolean) => ({ visibility: (on ? 'visible' : 'none') as 'visible' | 'none' });
 
-/** The workspace's sources and layers, all under the wells and in a fixed order. */
-export function SurfaceOverlays({ ws, hasGlyphs, siteBounds }: { ws: Workspace; hasGlyphs: boolean; siteBounds: [number, number, number, number] | null }) {
+/** What the sketch layers draw of a capture sketch: its envelope, stagnation point and well. */
+interface DrawnSketch {
+  name: string;
+  lon: number;
+  lat: number;
+  results: { envelope: Geometry; stagnationPoint: { lon: number; lat: number } };
+}
+
+/** The capture sketches as the sketch layers' features (envelope, stagnation point, trial well). */
+export function sketchesCollection(sketches: readonly DrawnSketch[]): FeatureCollection {
+  const features: Feature[] = [];
+  for (const k of sketches) {
+    features.push({ type: 'Feature', geometry: k.results.envelope, properties: { kind: 'envelope', name: k.name } });
+    features.push({ type: 'Feature', geometry: { type: 'Point', coordinates: [k.results.stagnationPoint.lon, k.results.stagnationPoint.lat] }, properties: { kind: 'stagnation', name: k.name } });
+    features.push({ type: 'Feature', geometry: { type: 'Point', coordinates: [k.lon, k.lat] }, properties: { kind: 'well', name: k.name } });
+  }
+  return { type: 'FeatureCollection', features };
+}
+
+/** The site's box as a canvas source's corners, where the surface source waits before a surface exists. */
+export function useBlankCorners(siteBounds: [number, number, number, number] | null): Corners {
   const [w, s, e, n] = siteBounds ?? [0, 0, 1, 1];
-  const blankCorners = useMemo(
+  return useMemo(
     () =>
       [
         [w, n],
         [e, n],
         [e, s],
         [w, s],
-      ] as [[number, number], [number, number], [number, number], [number, number]],
+      ] as Corners,
     [w, s, e, n],
   );
+}
+
+/** The workspace's sources and layers, all under the wells and in a fixed order. */
+export function SurfaceOverlays({ ws, hasGlyphs, siteBounds }: { ws: Workspace; hasGlyphs: boolean; siteBounds: [number, number, number, number] | null }) {
+  const blankCorners = useBlankCorners(siteBounds);
   const outlines = useMemo<FeatureCollection>(
     () => ({
       type: 'FeatureCollection',
@@ -53,21 +77,53 @@ export function SurfaceOverlays({ ws, hasGlyphs, siteBounds }: { ws: Workspace; 
     () => (editingId ? { ...outlines, features: outlines.features.filter((f) => f.id !== editingId) } : outlines),
     [outlines, editingId],
   );
-  const sketches = useMemo<FeatureCollection>(() => {
-    const features: Feature[] = [];
-    for (const k of ws.sketches) {
-      if (ws.hiddenSketches.has(k.id)) continue;
-      features.push({ type: 'Feature', geometry: k.results.envelope as Geometry, properties: { kind: 'envelope', name: k.name } });
-      features.push({ type: 'Feature', geometry: { type: 'Point', coordinates: [k.results.stagnationPoint.lon, k.results.stagnationPoint.lat] }, properties: { kind: 'stagnation', name: k.name } });
-      features.push({ type: 'Feature', geometry: { type: 'Point', coordinates: [k.lon, k.lat] }, properties: { kind: 'well', name: k.name } });
-    }
-    return { type: 'FeatureCollection', features };
-  }, [ws.sketches, ws.hiddenSketches]);
+  const sketches = useMemo(() => sketchesCollection(ws.sketches.filter((k) => !ws.hiddenSketches.has(k.id))), [ws.sketches, ws.hiddenSketches]);
   const trial = useMemo<FeatureCollection>(
     () => (ws.trial ? { type: 'FeatureCollection', features: [{ type: 'Feature', geometry: { type: 'Point', coordinates: [ws.trial.lon, ws.trial.lat] }, properties: {} }] } : EMPTY),
     [ws.trial],
   );
-  const image = ws.image;
+
+  return (
+    <>
+      <SurfaceImage image={ws.image} blankCorners={blankCorners} opacity={ws.opacity} />
+      <Source id={SOURCES.outlines} type="geojson" data={outlinesShown}>
+        <Layer {...outlineFillLayer} beforeId={BELOW_WELLS} />
+        <Layer {...outlineLineLayer} beforeId={BELOW_WELLS} />
+        {hasGlyphs ? <Layer {...outlineLabelLayer} beforeId={BELOW_WELLS} /> : null}
+      </Source>
+      <Source id={SOURCES.zones} type="geojson" data={ws.zones ?? EMPTY}>
+        <Layer {...zoneCasingLayer} beforeId={BELOW_WELLS} />
+        <Layer {...zoneLineLayer} beforeId={BELOW_WELLS} />
+      </Source>
+      <Source id={SOURCES.sketches} type="geojson" data={sketches}>
+        <Layer {...envelopeFillLayer} beforeId={BELOW_WELLS} />
+        <Layer {...envelopeLineLayer} beforeId={BELOW_WELLS} />
+        <Layer {...sketchPointsLayer} beforeId={BELOW_WELLS} />
+      </Source>
+      <Source id={SOURCES.trial} type="geojson" data={trial}>
+        <Layer {...trialLayer} beforeId={BELOW_WELLS} />
+      </Source>
+      <Source id={SOURCES.cvRings} type="geojson" data={ws.cvRings}>
+        <Layer {...cvRingLayer} beforeId={BELOW_WELLS} />
+      </Source>
+      <Source id={SOURCES.spots} type="geojson" data={ws.spots}>
+        <Layer {...spotCircleLayer} beforeId={BELOW_WELLS} />
+        {hasGlyphs ? <Layer {...spotLabelLayer} beforeId={BELOW_WELLS} /> : null}
+      </Source>
+    </>
+  );
+}
+
+/** A painted K surface: RGBA pixels, one per cell, and the grid's corners in WGS84. */
+export interface SurfaceImageData {
+  pixels: Uint8ClampedArray<ArrayBuffer>;
+  cols: number;
+  rows: number;
+  corners: Corners;
+}
+
+/** The K surface as a raster under the wells; `blankCorners` place the empty source before a surface exists. */
+export function SurfaceImage({ image, blankCorners, opacity, shown = true }: { image: SurfaceImageData | null; blankCorners: Corners; opacity: number; shown?: boolean }) {
   const { current: map } = useMap();
   /*
    * A canvas source, one pixel per cell: no image URL to fetch (the page's CSP allows no data: fetch) and
@@ -96,37 +152,10 @@ export function SurfaceOverlays({ ws, hasGlyphs, siteBounds }: { ws: Workspace; 
       source.pause();
     };
   }, [image, canvas, map]);
-  const surfacePaint = useMemo(() => ({ ...surfaceLayer.paint, 'raster-opacity': ws.opacity }), [ws.opacity]);
-
+  const paint = useMemo(() => ({ ...surfaceLayer.paint, 'raster-opacity': opacity }), [opacity]);
   return (
-    <>
-      <Source id={SOURCES.surface} {...canvasSource(canvas, image?.corners ?? blankCorners)}>
-        <Layer {...surfaceLayer} paint={surfacePaint} layout={visible(image !== null)} beforeId={BELOW_WELLS} />
-      </Source>
-      <Source id={SOURCES.outlines} type="geojson" data={outlinesShown}>
-        <Layer {...outlineFillLayer} beforeId={BELOW_WELLS} />
-        <Layer {...outlineLineLayer} beforeId={BELOW_WELLS} />
-        {hasGlyphs ? <Layer {...outlineLabelLayer} beforeId={BELOW_WELLS} /> : null}
-      </Source>
-      <Source id={SOURCES.zones} type="geojson" data={ws.zones ?? EMPTY}>
-        <Layer {...zoneCasingLayer} beforeId={BELOW_WELLS} />
-        <Layer {...zoneLineLayer} beforeId={BELOW_WELLS} />
-      </Source>
-      <Source id={SOURCES.sketches} type="geojson" data={sketches}>
-        <Layer {...envelopeFillLayer} beforeId={BELOW_WELLS} />
-        <Layer {...envelopeLineLayer} beforeId={BELOW_WELLS} />
-        <Layer {...sketchPointsLayer} beforeId={BELOW_WELLS} />
-      </Source>
-      <Source id={SOURCES.trial} type="geojson" data={trial}>
-        <Layer {...trialLayer} beforeId={BELOW_WELLS} />
-      </Source>
-      <Source id={SOURCES.cvRings} type="geojson" data={ws.cvRings}>
-        <Layer {...cvRingLayer} beforeId={BELOW_WELLS} />
-      </Source>
-      <Source id={SOURCES.spots} type="geojson" data={ws.spots}>
-        <Layer {...spotCircleLayer} beforeId={BELOW_WELLS} />
-        {hasGlyphs ? <Layer {...spotLabelLayer} beforeId={BELOW_WELLS} /> : null}
-      </Source>
-    </>
+    <Source id={SOURCES.surface} {...canvasSource(canvas, image?.corners ?? blankCorners)}>
+      <Layer {...surfaceLayer} paint={paint} layout={visible(image !== null && shown)} beforeId={BELOW_WELLS} />
+    </Source>
   );
 }

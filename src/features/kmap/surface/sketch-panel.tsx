@@ -328,32 +328,58 @@ function SketchItem({
           </ConfirmButton>
         ) : null}
       </div>
-      <dl className="mt-1 grid grid-cols-[auto_1fr] gap-x-2 gap-y-0.5 text-xs tabular-nums" data-testid="sketch-results">
-        <dt className="text-slate-600">K</dt>
-        <dd>{formatK(r.kMetersPerSecond, kUnit)}</dd>
-        <dt className="text-slate-600">T</dt>
-        <dd>{r.transmissivityM2PerS.toExponential(2)} m²/s</dd>
-        <dt className="text-slate-600">Rate</dt>
-        <dd>
-          {s.inputs.rate.value} {RATE_LABEL[s.inputs.rate.unit]} ({(r.rateM3PerS * 1000).toPrecision(3)} L/s)
-        </dd>
-        <dt className="text-slate-600">Gradient</dt>
-        <dd>
-          {r.gradient.toPrecision(3)} toward {Math.round(r.flowDirectionDeg)}°
-        </dd>
-        <dt className="text-slate-600">Stagnation point</dt>
-        <dd>{len(r.stagnationPointM)} downgradient</dd>
-        <dt className="text-slate-600">Capture width</dt>
-        <dd>
-          {len(r.captureWidthAtWellM)} at the well, {len(r.captureWidthFarM)} far upgradient
-        </dd>
-        <dt className="text-slate-600">Drawdown</dt>
-        <dd>
-          {len(r.cooperJacob.drawdownM)} at {len(s.inputs.drawdownRadiusM ?? 10)} after {((s.inputs.drawdownTimeS ?? 86_400) / 3600).toPrecision(3)} h (Cooper-Jacob)
-        </dd>
-      </dl>
+      <SketchNumbers
+        results={r}
+        kUnit={kUnit}
+        displayUnits={displayUnits}
+        rate={`${s.inputs.rate.value} ${RATE_LABEL[s.inputs.rate.unit]} (${(r.rateM3PerS * 1000).toPrecision(3)} L/s)`}
+        drawdown={`${len(r.cooperJacob.drawdownM)} at ${len(s.inputs.drawdownRadiusM ?? 10)} after ${((s.inputs.drawdownTimeS ?? 86_400) / 3600).toPrecision(3)} h (Cooper-Jacob)`}
+      />
       <p className={`mt-1 text-xs ${r.cooperJacob.valid ? 'text-slate-600' : 'text-amber-800'}`}>{r.cooperJacob.note}</p>
       <Cautions className="mt-2 rounded bg-amber-50 p-1.5 ring-1 ring-amber-200" />
     </li>
+  );
+}
+
+/** A capture sketch's numbers: K, T, rate, gradient, stagnation point, capture width and (when given) drawdown. */
+export function SketchNumbers({
+  results: r,
+  kUnit,
+  displayUnits,
+  rate,
+  drawdown,
+}: {
+  results: CaptureSketch['results'];
+  kUnit: KUnit;
+  displayUnits: DisplayUnits;
+  rate: string;
+  drawdown?: string;
+}) {
+  const len = (m: number) => formatLength(m, displayUnits, 'elevation');
+  return (
+    <dl className="mt-1 grid grid-cols-[auto_1fr] gap-x-2 gap-y-0.5 text-xs tabular-nums" data-testid="sketch-results">
+      <dt className="text-slate-600">K</dt>
+      <dd>{formatK(r.kMetersPerSecond, kUnit)}</dd>
+      <dt className="text-slate-600">T</dt>
+      <dd>{r.transmissivityM2PerS.toExponential(2)} m²/s</dd>
+      <dt className="text-slate-600">Rate</dt>
+      <dd>{rate}</dd>
+      <dt className="text-slate-600">Gradient</dt>
+      <dd>
+        {r.gradient.toPrecision(3)} toward {Math.round(r.flowDirectionDeg)}°
+      </dd>
+      <dt className="text-slate-600">Stagnation point</dt>
+      <dd>{len(r.stagnationPointM)} downgradient</dd>
+      <dt className="text-slate-600">Capture width</dt>
+      <dd>
+        {len(r.captureWidthAtWellM)} at the well, {len(r.captureWidthFarM)} far upgradient
+      </dd>
+      {drawdown ? (
+        <>
+          <dt className="text-slate-600">Drawdown</dt>
+          <dd>{drawdown}</dd>
+        </>
+      ) : null}
+    </dl>
   );
 }
