@@ -90,7 +90,11 @@ export const viewerLinkEmailBodySchema = z
   })
   .refine((b) => b.url || b.token, { message: 'Send the link’s URL as shown when it was made', path: ['url'] });
 export type ViewerLinkEmailBody = z.input<typeof viewerLinkEmailBodySchema>;
-export const viewerLinkEmailedSchema = z.object({ queued: z.number().int() });
+export const viewerLinkEmailedSchema = z.object({
+  queued: z.number().int(),
+  /** Addresses not mailed now: this link went to them minutes ago, or they had enough mail from Kfield today. */
+  held: z.array(z.string()),
+});
 
 /** GET /api/view/:token — what the read-only page needs to draw itself. */
 export const viewInfoSchema = z.object({

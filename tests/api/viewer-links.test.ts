@@ -130,6 +130,33 @@ describe('viewer links: e-mail', () => {
     await lead.post(`/api/viewer-links/${a.link.id}/email`, { to: ['right@example.org'], token: a.token }).expect(200);
     expect(await ts.outbox('right@example.org')).toHaveLength(1);
   });
+
+  it('holds back the same link to the same address within minutes, and says which addresses it held', async () => {
+    const { link } = await makeLink();
+    await lead.post(`/api/viewer-links/${link.id}/email`, { to: ['twice@example.org'], url: link.url }).expect(200);
+    const again = await lead.post(`/api/viewer-links/${link.id}/email`, { to: ['twice@example.org', 'new@example.org'], url: link.url }).expect(200);
+    expect(again.body).toEqual({ queued: 1, held: ['twice@example.org'] });
+    expect(await ts.outbox('twice@example.org')).toHaveLength(1);
+    expect(await ts.outbox('new@example.org')).toHaveLength(1);
+  });
+
+  it('refuses with 429, queueing nothing, once an account has mailed links to 100 addresses in an hour', async () => {
+    const own = await startTestServer();
+    try {
+      const l = await own.as(demoEmail('Lead'));
+      const made = (await l.post(`/api/sites/${own.demoSiteId}/viewer-links`, { label: 'Flood', layers: { wells: true } }).expect(201)).body;
+      const batch = (n: number) => Array.from({ length: 20 }, (_, i) => `flood-${n}-${i}@example.org`);
+      for (let n = 0; n < 5; n++) await l.post(`/api/viewer-links/${made.id}/email`, { to: batch(n), url: made.url }).expect(200);
+      const over = await l.post(`/api/viewer-links/${made.id}/email`, { to: batch(5), url: made.url });
+      expect(over.status).toBe(429);
+      expect(over.body.error.code).toBe('RATE_LIMITED');
+      expect(over.headers['retry-after']).toBe('3600');
+      expect(await own.outbox('flood-5-0@example.org')).toHaveLength(0);
+      expect((await own.outbox()).filter((m) => m.toAddresses[0]?.startsWith('flood-'))).toHaveLength(100);
+    } finally {
+      await own.close();
+    }
+  });
 });
 
 describe('viewer links: what a token opens', () => {

@@ -13,12 +13,16 @@ type Kind = MailRequest['kind'];
 export const MAIL_LIMITS: Record<Kind, { repeatSeconds: number; perTargetPerDay: number; perAccountPerHour: number; perClientPerHour: number }> = {
   'password-reset': { repeatSeconds: 5 * 60, perTargetPerDay: 5, perAccountPerHour: 30, perClientPerHour: 20 },
   invitation: { repeatSeconds: 5 * 60, perTargetPerDay: 10, perAccountPerHour: 50, perClientPerHour: 100 },
+  // Counted per address mailed: one request to 20 addresses counts 20.
+  'viewer-link': { repeatSeconds: 5 * 60, perTargetPerDay: 10, perAccountPerHour: 100, perClientPerHour: 200 },
 };
 
 export interface MailRequester {
   clientAddress?: string | null;
   requestedById?: string | null;
 }
+
+const LABELS: Record<Kind, string> = { 'password-reset': 'password-reset requests', invitation: 'invitations', 'viewer-link': 'viewer-link e-mails' };
 
 const tooMany = (what: string) =>
   new AppError('RATE_LIMITED', `Too many ${what} in the last hour; try again later`, 429, undefined, { 'Retry-After': '3600' });
@@ -33,7 +37,7 @@ export async function admitMailRequest(m: EntityManager, kind: Kind, target: str
   const now = Date.now();
   const since = (seconds: number) => MoreThan(new Date(now - seconds * 1000));
   const targetKey = target.trim().toLowerCase();
-  const label = kind === 'invitation' ? 'invitations' : 'password-reset requests';
+  const label = LABELS[kind];
   if (who.clientAddress && (await repo.count({ where: { kind, clientAddress: who.clientAddress, createdAt: since(3600) } })) >= limits.perClientPerHour) {
     throw tooMany(`${label} from this address`);
   }

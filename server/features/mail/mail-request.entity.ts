@@ -14,7 +14,7 @@ export class MailRequest {
   id: number;
 
   @Column('varchar', { length: 40 })
-  kind: 'password-reset' | 'invitation';
+  kind: 'password-reset' | 'invitation' | 'viewer-link';
 
   /** The target address, trimmed and lower-cased. */
   @Column('varchar', { length: 320 })

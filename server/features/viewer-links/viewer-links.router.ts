@@ -102,11 +102,12 @@ export function viewerLinksRoutes(ctx: AppContext): RouteDef[] {
       summary: 'E-mail a viewer link to 1–20 addresses through the outbox. Kfield keeps only the token’s hash, so send the url (or token) shown at creation; it must be this link’s',
       params: linkParams, body: viewerLinkEmailBodySchema,
       responses: {
-        200: { description: 'One message queued per address', schema: viewerLinkEmailedSchema },
+        200: { description: 'One message queued per address, except those held back by the mail limits (listed in held)', schema: viewerLinkEmailedSchema },
         400: err('Bad addresses, or a URL that is not this link’s (VIEWER_LINK_MISMATCH)'),
         409: err('The link was revoked or has expired (VIEWER_LINK_ENDED)'),
+        429: err('Too many viewer-link e-mails from this account or address in the last hour'),
       },
-      handler: (req) => svc.email(String(req.params.linkId), req.user!, req.body),
+      handler: (req) => svc.email(String(req.params.linkId), req.user!, req.body, { clientAddress: req.ip ?? null }),
     },
     {
       method: 'get', path: '/api/view/:token', tag: 'Viewer links', summary: 'What a viewer link shows: site name, system, units, basemap, layers, cautions, expiry (no sign-in; counts a view)',

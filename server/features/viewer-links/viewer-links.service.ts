@@ -15,6 +15,7 @@ import { hashToken, newToken, safeEqual } from '../../auth/tokens';
 import type { AppContext } from '../../context';
 import { AppError, badRequest, conflict, notFound } from '../../lib/errors';
 import { siteBasemapStyleUrl } from '../basemaps/basemaps.service';
+import { admitMailRequest, type MailRequester } from '../mail/mail-limits';
 import { CaptureSketchEntity } from '../ksurface/capture-sketch.entity';
 import { createKSurfaceService } from '../ksurface/ksurface.service';
 import { OutlineEntity } from '../ksurface/outline.entity';
@@ -104,7 +105,7 @@ export function createViewerLinksService(ctx: AppContext) {
    * Mail the link to each address, one message each, through the outbox. The server keeps only the
    * token's hash, so the Lead's client sends the URL (or token) it was shown; its hash must match.
    */
-  async function email(linkId: string, sender: Express.User, body: EmailBody): Promise<{ queued: number }> {
+  async function email(linkId: string, sender: Express.User, body: EmailBody, who: MailRequester = {}): Promise<{ queued: number; held: string[] }> {
     const link = await repo().findOneBy({ id: linkId });
     if (!link) throw notFound('The viewer link');
     const token = tokenOf(body);
@@ -123,10 +124,19 @@ export function createViewerLinksService(ctx: AppContext) {
     const text = [...paras, '', `Open the map: ${url}`, '', 'Kfield — hydraulic conductivity for monitoring-well networks.'].join('\n');
     const html = `<!doctype html><html><body style="font-family:sans-serif;color:#0f172a"><h2 style="color:#135c56">${esc(subject)}</h2>${paras.map((p) => `<p>${esc(p)}</p>`).join('')}<p><a href="${esc(url)}">Open the map</a></p></body></html>`;
     const to = [...new Set(body.to.map((a) => a.trim().toLowerCase()))];
-    await ds.transaction(async (m) => {
-      for (const address of to) await outbox.queue(m, { kind: 'viewer-link', to: address, subject, text, html });
+    // The mail limits (decision 011), per address: the same link to the same address within minutes,
+    // or an address mailed too often today, is held back and said so; too many from one account or
+    // client address is refused (429) before anything is queued.
+    return ds.transaction(async (m) => {
+      const held: string[] = [];
+      for (const address of to) {
+        const admitted = await admitMailRequest(m, 'viewer-link', `${link.id}|${address}`, { ...who, requestedById: sender.id });
+        if (admitted.mayMail) await outbox.queue(m, { kind: 'viewer-link', to: address, subject, text, html });
+        else held.push(address);
+        await admitted.record(admitted.mayMail);
+      }
+      return { queued: to.length - held.length, held };
     });
-    return { queued: to.length };
   }
 
   /** The one place a token becomes a link: anything that does not open a view throws viewNotFound(). */
