@@ -7,6 +7,7 @@ import { membersQueryOptions } from '@/features/members/api';
 import { outboxQueryOptions, usersQueryOptions } from '@/features/admin/api';
 import { adminBasemapsQueryOptions } from '@/features/basemaps/api';
 import { siteQueryOptions, sitesQueryOptions } from '@/features/sites/api';
+import { canManageViewerLinks, viewerLinksQueryOptions } from '@/features/viewer-links/api';
 import { wellQueryOptions, wellsQueryOptions } from '@/features/wells/api';
 import { recordQueryOptions, recordSeriesQueryOptions } from '@/features/records/api';
 import { mapWellsQueryOptions } from '@/features/kmap/api';
@@ -30,6 +31,7 @@ import { NotFoundRoute, RootErrorPage, RouteErrorPanel } from './routes/route-er
 import { SignInRoute } from './routes/sign-in';
 import { SiteMembersRoute } from './routes/site-members';
 import { SiteOverviewRoute } from './routes/site-overview';
+import { SiteViewerLinksRoute } from './routes/site-viewer-links';
 import { SitesRoute } from './routes/sites';
 import { SiteWellsRoute } from './routes/site-wells';
 import { WellPageRoute } from './routes/well-page';
@@ -74,6 +76,17 @@ export function createRoutes(queryClient: QueryClient): RouteObject[] {
   const prefetchSite = prefetchWhenSignedIn(({ params }) => {
     void queryClient.prefetchQuery(siteQueryOptions(params.siteId ?? ''));
     void queryClient.prefetchQuery(membersQueryOptions(params.siteId ?? ''));
+  });
+
+  // Viewer links are the Leads': the list is asked for only once the site says the person may see it.
+  const prefetchViewerLinks = prefetchWhenSignedIn(({ params }, me) => {
+    const siteId = params.siteId ?? '';
+    void queryClient.fetchQuery(siteQueryOptions(siteId)).then(
+      (site) => {
+        if (canManageViewerLinks(site, me)) void queryClient.prefetchQuery(viewerLinksQueryOptions(siteId));
+      },
+      () => undefined, // the screen shows the site's error itself
+    );
   });
 
   const prefetchWells = prefetchWhenSignedIn(({ params }) => {
@@ -150,6 +163,7 @@ export function createRoutes(queryClient: QueryClient): RouteObject[] {
                   loader: prefetchSite,
                   element: <SiteMembersRoute />,
                 },
+                { path: 'sites/:siteId/viewer-links', loader: prefetchViewerLinks, element: <SiteViewerLinksRoute /> },
                 { path: 'sites/:siteId/wells', loader: prefetchWells, element: <SiteWellsRoute /> },
                 { path: 'sites/:siteId/wells/new', loader: prefetchWells, element: <NewWellRoute /> },
                 { path: 'sites/:siteId/wells/import', loader: prefetchWells, element: <WellsImportRoute /> },

@@ -11,6 +11,7 @@ import { MembersSummary } from '@/features/members/components/members-summary';
 import { siteQueryOptions } from '@/features/sites/api';
 import { EditSiteForm } from '@/features/sites/components/edit-site-form';
 import { SiteDetails } from '@/features/sites/components/site-details';
+import { ViewerLinksSummary } from '@/features/viewer-links/components/viewer-links-summary';
 import { WellsSummary } from '@/features/wells/components/wells-summary';
 import { useDocumentTitle } from '@/lib/use-document-title';
 import { siteErrorRenderer } from './site-boundary';
@@ -103,6 +104,24 @@ function SiteOverview({ siteId }: { siteId: string }) {
               </QueryBoundary>
             </CardBody>
           </Card>
+          {canManage ? (
+            <Card aria-labelledby="site-viewer-links-title">
+              <CardHeader
+                titleId="site-viewer-links-title"
+                title="Viewer links"
+                actions={
+                  <ButtonLink to={`/sites/${site.id}/viewer-links`} variant="ghost" size="sm">
+                    Manage viewer links
+                  </ButtonLink>
+                }
+              />
+              <CardBody>
+                <QueryBoundary loadingLabel="Loading viewer links…" errorTitle="The viewer links could not be loaded">
+                  <ViewerLinksSummary siteId={site.id} />
+                </QueryBoundary>
+              </CardBody>
+            </Card>
+          ) : null}
         </div>
       </div>
     </>
