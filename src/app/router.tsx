@@ -145,6 +145,8 @@ export function createRoutes(queryClient: QueryClient): RouteObject[] {
             { path: 'invitations/:token', element: <AcceptInvitationRoute /> },
           ],
         },
+        // A viewer link's read-only map: no sign-in, no app shell; maplibre comes in its own chunk.
+        { path: 'view/:token', errorElement: <RootErrorPage />, lazy: async () => ({ Component: (await import('./routes/view')).ViewRoute }) },
         {
           loader: signedInOnly,
           element: <AppShell />,
