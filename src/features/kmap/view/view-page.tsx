@@ -141,7 +141,7 @@ export function ViewPage({ token, info }: { token: string; info: ViewInfo }) {
         <Wordmark />
         {/* On a phone the site's name has a line of its own, under the mark and the notice of expiry. */}
         <h1 className="order-last w-full text-lg leading-snug font-semibold tracking-tight text-slate-900 sm:order-none sm:w-auto sm:min-w-0 sm:flex-1" data-testid="view-site-name">
-          {info.siteName} <span className="font-normal text-slate-600">· K map</span>
+          {info.siteName} <span className="font-normal whitespace-nowrap text-slate-600">· K map</span>
         </h1>
         <p className="ml-auto text-xs text-slate-600 sm:ml-0">
           <span className="mr-2 inline-flex items-center rounded-full bg-slate-900 px-2 py-0.5 font-medium text-white">Read-only</span>

@@ -44,7 +44,7 @@ export function EmailLinkForm({ linkId, url, showOutboxHint }: { linkId: string;
     mutationFn: (to: string[]) => emailViewerLink(linkId, { to, url }),
     onSuccess: ({ queued, held }) => {
       const messages = plural(queued, 'message', 'messages');
-      const queuedText = queued === 0 ? 'No message queued' : showOutboxHint ? `Queued ${messages} — see Admin → Outbox` : `Queued ${messages}; Kfield sends them in a moment`;
+      const queuedText = queued === 0 ? 'No message queued' : showOutboxHint ? `Queued ${messages} — see Admin → Outbox` : `Queued ${messages}; Kfield sends ${queued === 1 ? 'it' : 'them'} in a moment`;
       const heldText =
         held.length > 0 ? ` Not sent now to ${held.join(', ')}: Kfield mailed this link there minutes ago, or the address has had enough mail from Kfield today.` : '';
       toast[queued === 0 ? 'info' : 'success'](`${queuedText}.${heldText}`);
