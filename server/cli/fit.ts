@@ -22,7 +22,8 @@ Geometry (in --units, or --geometry-units):
   --rc <r>            radius of the casing in which the water level moves
   --R <r>             radius of the screen (Hvorslev's intake radius)
   --rw <r>            radius of the borehole / filter pack (default: --R)
-  --intake screen|borehole   which radius is the intake for Hvorslev (default screen)
+  --intake screen|borehole   which radius is the intake, Hvorslev's R and Bouwer-Rice's rw
+                      (default: the screen for Hvorslev, the borehole for Bouwer-Rice)
   --L <len>           length of the screen (intake)
   --Lw <len>          Bouwer-Rice: static water level to the bottom of the screen
   --D <len>           Bouwer-Rice: saturated thickness (equal to --Lw when fully penetrating)
@@ -218,7 +219,7 @@ export function main(argv: readonly string[], io: CliIo = nodeIo): string {
     screenRadiusM: required('R', o.R),
     boreholeRadiusM: geo('rw', o.rw),
     screenLengthM: required('L', o.L),
-    intake: oneOf<'screen' | 'borehole'>('intake', o.intake, ['screen', 'borehole'], 'screen'),
+    intake: o.intake === undefined ? undefined : oneOf<'screen' | 'borehole'>('intake', o.intake, ['screen', 'borehole'], 'screen'),
     anisotropyRatio: num('anisotropy', o.anisotropy),
     filterPackPorosity: num('n', o.n),
     staticToScreenBottomM: geo('Lw', o.Lw),

@@ -2,10 +2,10 @@ import { bouwerRiceK, bouwerRiceShape, type BouwerRiceResult } from './bouwer-ri
 import { EngineInputError, OscillatingResponseError, requirePositive } from './errors';
 import { fitLine, type FitLine, type FitMethod, type FitWindow, type LineFit } from './fitting';
 import type { QcFlag } from './flags';
-import { casingRadiusForFlow, validateGeometry, type WellGeometry } from './geometry';
+import { boreholeRadiusOf, bouwerRiceRadiusOf, casingRadiusForFlow, intakeRadiusOf, validateGeometry, type WellGeometry } from './geometry';
 import { hvorslevK, hvorslevShape, type HvorslevResult } from './hvorslev';
 import { findMaterial, type MaterialId } from './materials';
-import { concaveUpwardFlag, fitFlags, h0Flag, kFlags, oscillationFlag, shapeFactorFlags } from './qc';
+import { concaveUpwardFlag, fitFlags, h0Flag, intakeScreenInFilterPackFlag, kFlags, oscillationFlag, shapeFactorFlags } from './qc';
 import { reduceRecord, type RawRecord, type ReducedRecord, type ReductionSettings } from './reduction';
 
 export type KResult = HvorslevResult | BouwerRiceResult;
@@ -79,7 +79,24 @@ export function analyzeReduced(reduced: ReducedRecord, settings: FitSettings): F
   }
   flags.push(...kFlags(k.kMetersPerSecond, settings.material ? findMaterial(settings.material) : undefined));
   flags.push(...shapeFactorFlags(k));
+  const intake = intakeFlag(settings.method, settings.geometry, fit.t0Seconds, k.kMetersPerSecond);
+  if (intake) flags.push(intake);
   return { fit, k, flags };
+}
+
+/** The screen radius taken as the intake where the borehole is wider: K with each radius. */
+function intakeFlag(method: FitMethod, geometry: WellGeometry, t0Seconds: number, kMetersPerSecond: number): QcFlag | null {
+  const used = method === 'hvorslev' ? intakeRadiusOf(geometry) : bouwerRiceRadiusOf(geometry);
+  const boreholeRadiusM = boreholeRadiusOf(geometry);
+  if (used !== geometry.screenRadiusM || !(boreholeRadiusM > geometry.screenRadiusM)) return null;
+  const withBorehole = { ...geometry, intake: 'borehole' as const };
+  let kBorehole: number | null = null;
+  try {
+    kBorehole = (method === 'hvorslev' ? hvorslevK(withBorehole, t0Seconds) : bouwerRiceK(withBorehole, t0Seconds)).kMetersPerSecond;
+  } catch (e) {
+    if (!(e instanceof EngineInputError)) throw e;
+  }
+  return intakeScreenInFilterPackFlag({ method, screenRadiusM: geometry.screenRadiusM, boreholeRadiusM, kScreenMetersPerSecond: kMetersPerSecond, kBoreholeMetersPerSecond: kBorehole });
 }
 
 /** Raw series and settings to reduced series, fitted line, K and QC flags, in one call. */

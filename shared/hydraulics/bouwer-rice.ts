@@ -1,5 +1,5 @@
 import { EngineInputError, requirePositive } from './errors';
-import { boreholeRadiusOf, casingRadiusForFlow, validateGeometry, type WellGeometry } from './geometry';
+import { bouwerRiceRadiusOf, casingRadiusForFlow, validateGeometry, type WellGeometry } from './geometry';
 import { REFERENCES } from './references';
 
 /**
@@ -56,7 +56,7 @@ export interface BouwerRiceShape {
 
 export function bouwerRiceShape(geometry: WellGeometry): BouwerRiceShape {
   validateGeometry(geometry);
-  const rw = boreholeRadiusOf(geometry);
+  const rw = bouwerRiceRadiusOf(geometry);
   const le = geometry.screenLengthM;
   const lw = geometry.staticToScreenBottomM;
   const d = geometry.saturatedThicknessM;

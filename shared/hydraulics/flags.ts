@@ -10,7 +10,8 @@ export type QcCode =
   | 'k-implausible'
   | 'k-outside-material'
   | 'shape-factor-validity'
-  | 'repeat-tests-disagree';
+  | 'repeat-tests-disagree'
+  | 'intake-screen-in-filter-pack';
 
 /** A QC finding as data: the UI renders `message`, a checker reads `values`. */
 export interface QcFlag {

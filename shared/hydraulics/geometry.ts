@@ -14,7 +14,10 @@ export interface WellGeometry {
   boreholeRadiusM?: number;
   /** L (Hvorslev), Le (Bouwer-Rice): length of the intake. */
   screenLengthM: number;
-  /** Which radius is the intake's: the screen, or the borehole when the pack is much more permeable. */
+  /**
+   * Which radius is the intake's (Hvorslev's R, Bouwer-Rice's rw): the screen, or the borehole when
+   * the pack is much more permeable. Left out: the screen for Hvorslev, the borehole for Bouwer-Rice.
+   */
   intake?: 'screen' | 'borehole';
   /** Kh/Kv; Hvorslev's m is its square root. Default 1. */
   anisotropyRatio?: number;
@@ -32,6 +35,11 @@ export function boreholeRadiusOf(geometry: WellGeometry): number {
 
 export function intakeRadiusOf(geometry: WellGeometry): number {
   return geometry.intake === 'borehole' ? boreholeRadiusOf(geometry) : geometry.screenRadiusM;
+}
+
+/** Bouwer-Rice's rw: the borehole's radius unless the intake is set to the screen. */
+export function bouwerRiceRadiusOf(geometry: WellGeometry): number {
+  return geometry.intake === 'screen' ? geometry.screenRadiusM : boreholeRadiusOf(geometry);
 }
 
 /** Checks what every method needs; method-specific fields are checked by the method. */

@@ -335,3 +335,37 @@ export function repeatTestFlags(tests: readonly RepeatTest[], tolerance = REPEAT
     },
   ];
 }
+
+/**
+ * A fit that takes the screen radius as the intake in a well whose borehole (filter pack) is
+ * wider: names both radii and the K each gives, so the analyst answers which one the pack calls for.
+ */
+export function intakeScreenInFilterPackFlag(c: {
+  method: FitMethod;
+  screenRadiusM: number;
+  boreholeRadiusM: number;
+  kScreenMetersPerSecond: number;
+  /** Null when the method refuses the borehole radius (e.g. Le/rw out of range). */
+  kBoreholeMetersPerSecond: number | null;
+}): QcFlag | null {
+  if (!(c.boreholeRadiusM > c.screenRadiusM)) return null;
+  const name = c.method === 'hvorslev' ? 'Hvorslev’s intake radius R' : 'Bouwer-Rice’s rw';
+  const kb = c.kBoreholeMetersPerSecond;
+  return {
+    code: 'intake-screen-in-filter-pack',
+    severity: 'warning',
+    message:
+      `${name} is the screen radius ${fmt(c.screenRadiusM, 4)} m in a borehole of radius ${fmt(c.boreholeRadiusM, 4)} m (filter pack): ` +
+      `K = ${fmtK(c.kScreenMetersPerSecond)} m/s with the screen radius, ` +
+      (kb === null ? 'and the method does not accept the borehole radius.' : `${fmtK(kb)} m/s with the borehole radius.`),
+    values: {
+      method: c.method,
+      screenRadiusM: c.screenRadiusM,
+      boreholeRadiusM: c.boreholeRadiusM,
+      kScreenMetersPerSecond: c.kScreenMetersPerSecond,
+      kBoreholeMetersPerSecond: kb,
+    },
+    suggestion: 'Use the borehole radius where the filter pack is more permeable than the formation; keep the screen radius only for a pack no more permeable than it.',
+    reference: REFERENCES.intakeRadius,
+  };
+}

@@ -17,5 +17,6 @@ export const REFERENCES = {
   materialK: 'Freeze & Cherry (1979), Table 2.2',
   wellK: 'Freeze (1975): K is log-normal, so a well’s K is the geometric mean of its fits',
   rSquared: 'Common practice: r² below 0.98 on the semi-log line',
+  intakeRadius: 'Common practice; Bouwer & Rice (1976): the borehole radius is the intake where the filter pack is much more permeable than the formation',
   shapeFactorBias: 'ASTM D5912-20; Zlotnik et al. (2010): shape factors can underestimate K by 25–40 %',
 } as const;

@@ -47,6 +47,16 @@ export const fitGeometrySchema = z.object({
   saturatedThicknessM: positive('Saturated thickness').optional(),
 });
 export type FitGeometry = z.infer<typeof fitGeometrySchema>;
+/**
+ * Geometry fields given on a new fit or a change: any subset, without defaults, so what is left out
+ * comes from the well (a new fit) or stays as it was (a change) — the intake included.
+ */
+export const fitGeometryChangeSchema = fitGeometrySchema
+  .extend({
+    intake: fitGeometrySchema.shape.intake.unwrap(),
+    anisotropyRatio: fitGeometrySchema.shape.anisotropyRatio.unwrap(),
+  })
+  .partial();
 
 export const FIT_METHOD_IDS = ['hvorslev', 'bouwer-rice'] as const;
 export const FIT_LINE_IDS = ['anchored', 'free'] as const;
@@ -57,7 +67,7 @@ export const fitBodySchema = z.object({
   /** Omitted: the method's recommended head range (or 0.05 < H/H0 ≤ 1). */
   window: fitWindowSchema.optional(),
   /** Omitted fields come from the well. */
-  geometry: fitGeometrySchema.partial().default({}),
+  geometry: fitGeometryChangeSchema.default({}),
   options: z
     .object({
       allowOscillation: z.boolean().default(false),
@@ -72,7 +82,7 @@ export const fitPatchSchema = z.object({
   method: fitBodySchema.shape.method.optional(),
   line: z.enum(FIT_LINE_IDS, { error: 'Line must be anchored or free' }).optional(),
   window: fitWindowSchema.nullable().optional(),
-  geometry: fitGeometrySchema.partial().optional(),
+  geometry: fitGeometryChangeSchema.optional(),
   options: z.object({ allowOscillation: z.boolean().default(false), material: z.string().max(60).optional() }).optional(),
   note: z.string().max(2000, 'Note must be at most 2000 characters').optional(),
 });

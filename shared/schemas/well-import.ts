@@ -3,6 +3,7 @@ import type { LengthUnit } from '../units/length';
 import { epsgCodeSchema } from './sites';
 import {
   aquiferConditionSchema,
+  intakeRadiusSchema,
   lengthUnitSchema,
   screenReferenceSchema,
   wellSchema,
@@ -25,6 +26,7 @@ export const IMPORT_FIELDS = [
   'casingRadius',
   'screenRadius',
   'boreholeRadius',
+  'intakeRadius',
   'filterPackPorosity',
   'hydroUnit',
   'aquiferCondition',
@@ -50,6 +52,7 @@ export const IMPORT_FIELD_LABELS: Record<ImportField, string> = {
   casingRadius: 'Casing radius',
   screenRadius: 'Screen radius',
   boreholeRadius: 'Borehole radius',
+  intakeRadius: 'Intake radius (screen or borehole)',
   filterPackPorosity: 'Filter-pack porosity',
   hydroUnit: 'Hydrostratigraphic unit',
   aquiferCondition: 'Aquifer condition',
@@ -147,6 +150,7 @@ const FIELD_ALIASES: Record<ImportField, string[]> = {
   casingRadius: ['casing radius', 'casing inner radius', 'rc'],
   screenRadius: ['screen radius', 'rs'],
   boreholeRadius: ['borehole radius', 'boring radius', 'rw'],
+  intakeRadius: ['intake radius', 'intake'],
   filterPackPorosity: ['filter pack porosity', 'porosity', 'pack porosity'],
   hydroUnit: ['hydrostratigraphic unit', 'unit', 'hydro unit', 'formation', 'aquifer'],
   aquiferCondition: ['aquifer condition', 'condition', 'confinement'],
@@ -275,6 +279,8 @@ export function rowToWellInput(cells: Partial<Record<ImportField, string>>, sett
     casingRadius: len('casingRadius'),
     screenRadius: len('screenRadius'),
     boreholeRadius: len('boreholeRadius'),
+    // Left empty: the well's default (the borehole where it is wider than the screen).
+    intakeRadius: (cells.intakeRadius ?? '').trim() === '' ? undefined : choice('intakeRadius', intakeRadiusSchema.options, 'screen'),
     filterPackPorosity: num('filterPackPorosity', false),
     hydroUnit: text('hydroUnit') || null,
     aquiferCondition: choice('aquiferCondition', aquiferConditionSchema.options, settings.defaults.aquiferCondition),

@@ -11,6 +11,19 @@ export const WELL_STATUSES = ['active', 'inactive', 'decommissioned'] as const;
 export const wellStatusSchema = z.enum(WELL_STATUSES, { error: 'Choose active, inactive or decommissioned' });
 export type WellStatus = z.infer<typeof wellStatusSchema>;
 
+export const INTAKE_RADII = ['screen', 'borehole'] as const;
+/** Which radius is the intake's (Hvorslev's R, Bouwer-Rice's rw): the screen, or the borehole (filter pack). */
+export const intakeRadiusSchema = z.enum(INTAKE_RADII, { error: 'Intake radius must be the screen or the borehole' });
+export type IntakeRadius = z.infer<typeof intakeRadiusSchema>;
+/**
+ * The intake of a new well when none is chosen: the borehole where a filter pack surrounds the
+ * screen (borehole radius larger than the screen's), as where the pack is more permeable than the
+ * formation (common practice); the screen otherwise.
+ */
+export function defaultIntakeRadius(screenRadiusM: number, boreholeRadiusM: number): IntakeRadius {
+  return boreholeRadiusM > screenRadiusM ? 'borehole' : 'screen';
+}
+
 export const SCREEN_REFERENCES = ['depth', 'elevation'] as const;
 /** Screen top and bottom entered as depths below ground or as elevations. */
 export const screenReferenceSchema = z.enum(SCREEN_REFERENCES, { error: 'Choose depth below ground or elevation' });
@@ -73,6 +86,8 @@ const wellFieldsBase = z.object({
   casingRadius: lengthSchema('Casing radius'),
   screenRadius: lengthSchema('Screen radius'),
   boreholeRadius: lengthSchema('Borehole radius'),
+  /** Omitted on a new well: the borehole where it is larger than the screen, else the screen. */
+  intakeRadius: intakeRadiusSchema.optional(),
   filterPackPorosity: numberSchema('Filter-pack porosity')
     .gt(0, 'Filter-pack porosity must be between 0 and 1 (exclusive)')
     .lt(1, 'Filter-pack porosity must be between 0 and 1 (exclusive)')
@@ -262,6 +277,8 @@ export const wellSchema = z.object({
   casingRadiusM: z.number(),
   screenRadiusM: z.number(),
   boreholeRadiusM: z.number(),
+  /** The radius every new fit of this well takes as the intake, unless the fit overrides it. */
+  intakeRadius: intakeRadiusSchema,
   filterPackPorosity: z.number().nullable(),
   hydroUnit: z.string().nullable(),
   aquiferCondition: aquiferConditionSchema,
@@ -302,6 +319,7 @@ export function wellToInput(
     casingRadius: len(w.casingRadiusM, 'radius'),
     screenRadius: len(w.screenRadiusM, 'radius'),
     boreholeRadius: len(w.boreholeRadiusM, 'radius'),
+    intakeRadius: w.intakeRadius,
     filterPackPorosity: w.filterPackPorosity,
     hydroUnit: w.hydroUnit,
     aquiferCondition: w.aquiferCondition,

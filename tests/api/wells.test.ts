@@ -471,7 +471,7 @@ describe('wells: CSV export', () => {
     const siteId = await newSite();
     const { guessMapping } = await import('@shared/schemas/well-import');
     const mapping = guessMapping(header.split(','), 'epsg');
-    expect(Object.keys(mapping)).toHaveLength(18); // every field but latitude and longitude
+    expect(Object.keys(mapping)).toHaveLength(19); // every field but latitude and longitude
     const imported = await analyst.post(`/api/sites/${siteId}/wells/import`, {
       csv: r.text, mapping, units: { elevation: 'm', depth: 'm', radius: 'm' }, screenReference: 'depth', coordinates: { kind: 'epsg', epsg: 32632 },
     });

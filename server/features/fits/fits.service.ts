@@ -75,11 +75,17 @@ export function wellGeometry(well: Well): FitGeometry {
     screenRadiusM: well.screenRadiusM,
     boreholeRadiusM: well.boreholeRadiusM,
     screenLengthM: lw && lw < screenLengthM ? lw : screenLengthM,
-    intake: 'screen',
+    // The well says which radius is the intake (decision 012); a fit may override it.
+    intake: well.intakeRadius ?? 'screen',
     anisotropyRatio: 1,
     ...(well.staticToScreenBottomM ? { staticToScreenBottomM: well.staticToScreenBottomM } : {}),
     ...(well.saturatedThicknessM ? { saturatedThicknessM: well.saturatedThicknessM } : {}),
   };
+}
+
+/** For the audit trail: a fit whose intake is not the well's says so (intake and the well's). */
+export function intakeOverride(geometry: FitGeometry, well: Pick<Well, 'intakeRadius'>): { intake?: FitGeometry['intake']; wellIntake?: FitGeometry['intake'] } {
+  return geometry.intake !== well.intakeRadius ? { intake: geometry.intake, wellIntake: well.intakeRadius } : {};
 }
 
 function engineGeometry(g: FitGeometry): WellGeometry {
@@ -260,13 +266,13 @@ export function createFitsService({ ds, config, outbox }: AppContext) {
     const geometry = { ...(base ?? wellGeometry(well)), ...body.geometry } as FitGeometry;
     const reduced = await loadReduced(m, record);
     const result = compute(reduced, body, geometry, record.slugVolumeM3);
-    return { record, geometry, result: toStoredResult(result, reduced, record.slugVolumeM3), flags: result.flags };
+    return { record, well, geometry, result: toStoredResult(result, reduced, record.slugVolumeM3), flags: result.flags };
   }
 
   async function create(recordId: string, actor: Actor, body: FitBody): Promise<Fit> {
     requirePreparer(actor);
     const fit = await ds.transaction(async (m) => {
-      const { record, geometry, result, flags } = await computeFor(m, recordId, body);
+      const { record, well, geometry, result, flags } = await computeFor(m, recordId, body);
       const now = new Date();
       const repo = m.getRepository(FitEntity);
       const f = repo.create({
@@ -286,7 +292,12 @@ export function createFitsService({ ds, config, outbox }: AppContext) {
       await repo.save(f);
       f.chainId = f.id;
       await repo.update({ id: f.id }, { chainId: f.id });
-      await event(m, f.id, 'created', actor.user.id, { method: body.method, line: body.line, kMetersPerSecond: result.kMetersPerSecond });
+      await event(m, f.id, 'created', actor.user.id, {
+        method: body.method,
+        line: body.line,
+        kMetersPerSecond: result.kMetersPerSecond,
+        ...intakeOverride(geometry, well),
+      });
       return f;
     });
     return toDto(fit, actor);

@@ -1,5 +1,5 @@
 import { Column, CreateDateColumn, Entity, Index, JoinColumn, ManyToOne, PrimaryGeneratedColumn, UpdateDateColumn, type Relation } from 'typeorm';
-import type { AquiferCondition, WellStatus } from '@shared/schemas/wells';
+import type { AquiferCondition, IntakeRadius, WellStatus } from '@shared/schemas/wells';
 import type { Site } from '../sites/site.entity';
 
 /** A monitoring well. Every length is in metres; depths are below ground unless named otherwise. */
@@ -71,6 +71,10 @@ export class Well {
 
   @Column('real')
   boreholeRadiusM: number;
+
+  /** Hvorslev's intake R and Bouwer-Rice's rw: the screen's radius or the borehole's (decision 012). */
+  @Column('varchar', { length: 16, default: 'screen' })
+  intakeRadius: IntakeRadius;
 
   @Column('real', { nullable: true })
   filterPackPorosity: number | null;

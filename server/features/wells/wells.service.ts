@@ -2,6 +2,7 @@ import type { EntityManager } from 'typeorm';
 import { Not } from 'typeorm';
 import type { z } from 'zod';
 import {
+  defaultIntakeRadius,
   derivedStaticToScreenBottomM,
   matchHydroUnit,
   wellConstructionToSi,
@@ -51,6 +52,7 @@ export function toWellDto(w: Well): WellDto {
     casingRadiusM: w.casingRadiusM,
     screenRadiusM: w.screenRadiusM,
     boreholeRadiusM: w.boreholeRadiusM,
+    intakeRadius: w.intakeRadius,
     filterPackPorosity: w.filterPackPorosity,
     hydroUnit: w.hydroUnit,
     aquiferCondition: w.aquiferCondition,
@@ -85,6 +87,7 @@ export function buildWellRow(site: Pick<Site, 'id' | 'epsgCode' | 'hydroUnits'>,
       name: input.name,
       ...coords.value,
       ...c,
+      intakeRadius: input.intakeRadius ?? defaultIntakeRadius(c.screenRadiusM, c.boreholeRadiusM),
       hydroUnit: unit.unit,
       aquiferCondition: input.aquiferCondition,
       status: input.status,

@@ -19,6 +19,8 @@ export function newWellDefaults(site: FormSite): DefaultValues<WellFields> {
     casingRadius: unit('radius'),
     screenRadius: unit('radius'),
     boreholeRadius: unit('radius'),
+    // Where a filter pack surrounds the screen its outer radius is the usual intake (decision 012).
+    intakeRadius: 'borehole',
     filterPackPorosity: null,
     hydroUnit: '',
     aquiferCondition: 'unconfined',

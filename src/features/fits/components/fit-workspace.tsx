@@ -304,6 +304,7 @@ export function FitWorkspace({
           readOnly={!editable}
           onReset={() => set({ geometry: draftFromGeometry(reduced.defaultGeometry, units) })}
           wellPorosity={wellFilterPackPorosity}
+          wellIntake={reduced.defaultGeometry.intake}
         />
         <div className="grid items-start gap-3 border-t border-slate-200 pt-4 sm:grid-cols-2">
         <SelectField

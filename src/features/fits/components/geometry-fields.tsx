@@ -24,7 +24,11 @@ interface Props {
   onReset?: () => void;
   /** Filled in when the level is first said to move within the pack. */
   wellPorosity?: number | null;
+  /** The well's intake radius, which every fit takes unless it overrides it. */
+  wellIntake?: GeometryDraft['intake'];
 }
+
+const INTAKE_WORDS: Record<GeometryDraft['intake'], string> = { screen: 'screen', borehole: 'borehole' };
 
 /** √((1 − n) rc² + n rw²) as typed so far, or null while a number is missing. */
 function effectiveRadiusText(draft: GeometryDraft, units: GeometryUnits): string | null {
@@ -36,7 +40,7 @@ function effectiveRadiusText(draft: GeometryDraft, units: GeometryUnits): string
   return formatLengthIn(r, units.radius, 4);
 }
 
-export function GeometryFields({ draft, onChange, units, method, errors, readOnly, onReset, wellPorosity = null }: Props) {
+export function GeometryFields({ draft, onChange, units, method, errors, readOnly, onReset, wellPorosity = null, wellIntake }: Props) {
   const set = (patch: Partial<GeometryDraft>) => onChange({ ...draft, ...patch });
   const field = (name: GeometryField, hint?: string) => {
     const unit = unitOfField(name, units);
@@ -68,6 +72,15 @@ export function GeometryFields({ draft, onChange, units, method, errors, readOnl
           value={draft.intake}
           onChange={(e) => set({ intake: e.target.value as GeometryDraft['intake'] })}
           disabled={readOnly}
+          hint={
+            wellIntake === undefined
+              ? undefined
+              : draft.intake === wellIntake
+                ? `The well’s ${INTAKE_WORDS[wellIntake]} radius`
+                : `Overrides the well’s ${INTAKE_WORDS[wellIntake]} radius`
+          }
+          data-testid="intake-select"
+          data-well-intake={wellIntake}
         >
           <option value="screen">Screen radius</option>
           <option value="borehole">Borehole radius</option>

@@ -49,6 +49,7 @@ export function WellDetails({ well, displayUnits, siteEpsg }: { well: Well; disp
       <Row term="Casing inner radius">{len(well.casingRadiusM, 'radius')}</Row>
       <Row term="Screen radius">{len(well.screenRadiusM, 'radius')}</Row>
       <Row term="Borehole radius">{len(well.boreholeRadiusM, 'radius')}</Row>
+      <Row term="Intake radius">{well.intakeRadius === 'borehole' ? 'Borehole (filter pack)' : 'Screen'}</Row>
       <Row term="Filter-pack porosity">{formatNumber(well.filterPackPorosity, 2)}</Row>
       <Row term="Static water depth">{well.staticWaterDepthM === null ? '—' : `${len(well.staticWaterDepthM, 'depth')} below measuring point`}</Row>
       <Row term="Static level to screen bottom (Lw)">

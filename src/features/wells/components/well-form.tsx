@@ -22,7 +22,7 @@ type CoordinateMode = 'site' | 'other' | 'latlon';
 
 const TOP_FIELDS = new Set([
   'name', 'coordinates', 'groundElevation', 'measuringPointElevation', 'screenReference', 'screenTop', 'screenBottom', 'casingRadius',
-  'screenRadius', 'boreholeRadius', 'filterPackPorosity', 'hydroUnit', 'aquiferCondition', 'saturatedThickness', 'staticWaterDepth',
+  'screenRadius', 'boreholeRadius', 'intakeRadius', 'filterPackPorosity', 'hydroUnit', 'aquiferCondition', 'saturatedThickness', 'staticWaterDepth',
   'staticToScreenBottom', 'status', 'notes',
 ]);
 
@@ -250,6 +250,16 @@ export function WellForm({ site, defaultValues, submitLabel, onSubmit, onCancel,
           error={errors.filterPackPorosity?.message}
           {...register('filterPackPorosity', { setValueAs: asNumber })}
         />
+        <SelectField
+          label="Intake radius (Hvorslev's R, Bouwer-Rice's rw)"
+          className="sm:max-w-md"
+          hint="With a filter pack (borehole wider than the screen) the borehole radius is common practice where the pack is more permeable than the formation; choose the screen radius only for a pack no more permeable than it. Every fit of this well takes this radius unless the analyst overrides it on the fit."
+          error={errors.intakeRadius?.message}
+          {...register('intakeRadius')}
+        >
+          <option value="borehole">Borehole radius (filter pack)</option>
+          <option value="screen">Screen radius</option>
+        </SelectField>
       </Group>
 
       <Group title="Aquifer and water level">
