@@ -8,12 +8,18 @@ import type { QcFlag } from './flags';
 export class EngineInputError extends Error {
   readonly field: string;
   readonly problem: string;
+  /** A stable code for a refusal a client acts on (e.g. TEST_START_NOT_FOUND); absent for plain input errors. */
+  readonly code: string | undefined;
+  /** Numbers behind the refusal, e.g. `candidatesSeconds` for a test start that could not be found. */
+  readonly details: Readonly<Record<string, unknown>> | undefined;
 
-  constructor(field: string, problem: string) {
+  constructor(field: string, problem: string, options: { code?: string; details?: Record<string, unknown> } = {}) {
     super(`${field}: ${problem}`);
     this.name = 'EngineInputError';
     this.field = field;
     this.problem = problem;
+    this.code = options.code;
+    this.details = options.details;
   }
 }
 

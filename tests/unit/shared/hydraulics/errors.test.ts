@@ -97,9 +97,18 @@ describe('invalid engine inputs', () => {
     ).toThrow('barometric: covers 5–50 s but the record runs 0–49 s; the barometric series must cover the whole record');
   });
 
-  it('asks for the static level when too few readings precede the step', () => {
+  it('asks for the static level when no readings precede the test start', () => {
+    // the record starts displaced (a logger started late): there is no pre-test reading to take the static level from
     expect(() => analyzeRecord({ ...good, reduction: { reference: 'depth' } })).toThrow(
-      'staticLevelM: only 1 reading(s) precede the test start; enter the static level or include at least 3 pre-test readings',
+      'staticLevelM: No readings before the test start and no static level entered: enter the static level',
+    );
+  });
+
+  it('asks for the static level when too few readings precede the step', () => {
+    const t = Float64Array.from({ length: 52 }, (_, i) => i);
+    const value = Float64Array.from(t, (x) => (x < 2 ? 2 : 2 + 0.5 * Math.exp(-(x - 2) / 10)));
+    expect(() => analyzeRecord({ ...good, record: { timeSeconds: t, value }, reduction: { reference: 'depth' } })).toThrow(
+      'staticLevelM: only 2 reading(s) precede the test start; enter the static level or include at least 3 pre-test readings',
     );
   });
 

@@ -8,25 +8,13 @@ import { hvorslevK } from '@shared/hydraulics/hvorslev';
 import { LENGTH_UNITS, lengthFromSi, lengthSeriesToSi, lengthToSi, type LengthUnit } from '@shared/units/length';
 import { PRESSURE_UNITS, STANDARD_GRAVITY, pressureFromSi, pressureSeriesToSi, type PressureUnit } from '@shared/units/pressure';
 import { TIME_UNITS, timeFromSi, timeSeriesToSi, type TimeUnit } from '@shared/units/time';
+import { gaussian } from '../../../support/gaussian';
 
 // Common practice (domain.md §7, item 15): a synthetic H0·exp(−t/T0) returns T0 and K within the
 // noise bound, and the reference mode and the input units do not change H/H0 or K.
 
 const SEED = 20240501;
 const rel = (actual: number, expected: number) => Math.abs(actual / expected - 1);
-
-/** Deterministic Gaussian noise (mulberry32 + Box-Muller), seeded per case. */
-function gaussian(seed: number): () => number {
-  let s = seed >>> 0;
-  const uniform = () => {
-    s = (s + 0x6d2b79f5) >>> 0;
-    let t = s;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-  return () => Math.sqrt(-2 * Math.log(1 - uniform())) * Math.cos(2 * Math.PI * uniform());
-}
 
 interface Case {
   t0Seconds: number;

@@ -4,6 +4,7 @@ import { OscillatingResponseError } from '@shared/hydraulics/errors';
 import { MATERIALS } from '@shared/hydraulics/materials';
 import { repeatTestFlags } from '@shared/hydraulics/qc';
 import { reduceRecord } from '@shared/hydraulics/reduction';
+import { gaussian } from '../../../support/gaussian';
 
 const geometry = { casingRadiusM: 0.0254, screenRadiusM: 0.0254, screenLengthM: 3 };
 
@@ -20,19 +21,6 @@ function input(shape: (t: number) => number, options: { n?: number; dt?: number;
 }
 
 const codes = (a: { flags: { code: string }[] }) => a.flags.map((f) => f.code);
-
-/** Deterministic Gaussian noise (mulberry32 + Box-Muller). */
-function gaussian(seed: number): () => number {
-  let s = seed >>> 0;
-  const uniform = () => {
-    s = (s + 0x6d2b79f5) >>> 0;
-    let t = s;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-  return () => Math.sqrt(-2 * Math.log(1 - uniform())) * Math.cos(2 * Math.PI * uniform());
-}
 
 describe('QC flags', () => {
   const underdamped = (t: number) => Math.exp(-t / 40) * Math.cos((2 * Math.PI * t) / 25);
