@@ -85,8 +85,16 @@ export const fitPatchSchema = z.object({
   geometry: fitGeometryChangeSchema.optional(),
   options: z.object({ allowOscillation: z.boolean().default(false), material: z.string().max(60).optional() }).optional(),
   note: z.string().max(2000, 'Note must be at most 2000 characters').optional(),
+  /** The code of the flag whose suggested action this change applies: recorded as resolved when the change answers it. */
+  resolving: z.string().max(60).optional(),
 });
 export type FitPatch = z.input<typeof fitPatchSchema>;
+
+/** Submit: a reason for each flag that changes K and is not answered by the fit (see shared/hydraulics/flag-answers.ts). */
+export const submitBodySchema = z.object({
+  reasons: z.record(z.string().max(60), z.string().trim().max(2000, 'A reason must be at most 2000 characters')).default({}),
+});
+export type SubmitBody = z.input<typeof submitBodySchema>;
 
 export const qcFlagSchema = z.object({
   code: z.string(),
@@ -144,6 +152,10 @@ export const fitSchema = z.object({
     kReference: z.string(),
   }),
   flags: z.array(qcFlagSchema),
+  /** The analyst's reasons for keeping the fit as it is despite a flag that changes K, by flag code. */
+  flagReasons: z.record(z.string(), z.string()),
+  /** Flags resolved by applying their suggested action, no longer raised by the fit. */
+  resolvedFlags: z.array(z.object({ code: z.string(), message: z.string(), action: z.string(), by: personRefSchema, at: isoDateTime })),
   preparedBy: personRefSchema,
   checkedBy: personRefSchema.nullable(),
   checkComment: z.string().nullable(),

@@ -1,4 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { K_CHANGING_CODES } from '../../shared/hydraulics/flag-answers';
 import { FitEntity } from '../../server/features/fits/fit.entity';
 import { FitEventEntity } from '../../server/features/fits/fit-event.entity';
 import { Well } from '../../server/features/wells/well.entity';
@@ -17,6 +18,9 @@ beforeAll(async () => {
 afterAll(async () => ts.close());
 
 const newRecord = (k = 2e-5, extra: { oscillate?: boolean } = {}) => insertSyntheticRecord(ts.ds, wellId, { kMetersPerSecond: k, ...extra });
+/** A reason for each flag that changes K (the lifecycle tests choose their windows on purpose). */
+const reasonsFor = (fit: { flags: { code: string }[] }) =>
+  ({ reasons: Object.fromEntries(fit.flags.filter((f) => K_CHANGING_CODES.has(f.code)).map((f) => [f.code, 'The window is chosen on purpose for this test.'])) });
 const fitsCount = () => ts.ds.getRepository(FitEntity).count();
 
 async function draft(k = 2e-5, client = analyst) {
@@ -130,7 +134,7 @@ describe('the check lifecycle', () => {
     const revised = await analyst.patch(`/api/fits/${fit.id}`, { line: 'free', window: { kind: 'head', upper: 0.5, lower: 0.1 } }).expect(200);
     expect(revised.body.id).toBe(fit.id);
     expect(revised.body.line).toBe('free');
-    await analyst.post(`/api/fits/${fit.id}/submit`).expect(200);
+    await analyst.post(`/api/fits/${fit.id}/submit`, reasonsFor(revised.body)).expect(200);
     const done = await checker.post(`/api/fits/${fit.id}/check`, { decision: 'checked' }).expect(200);
     expect(done.body.status).toBe('checked');
     expect(done.body.checkedBy.name).toBe('Ines Okafor');
@@ -194,7 +198,7 @@ describe('the check lifecycle', () => {
     const revs = (await viewer.get(`/api/fits/${rev.body.id}/revisions`).expect(200)).body.fits;
     expect(revs.map((f: { revision: number }) => f.revision)).toEqual([1, 2]);
 
-    await analyst.post(`/api/fits/${rev.body.id}/submit`).expect(200);
+    await analyst.post(`/api/fits/${rev.body.id}/submit`, reasonsFor(rev.body)).expect(200);
     await checker.post(`/api/fits/${rev.body.id}/check`, { decision: 'checked' }).expect(200);
     const oldAfter = (await viewer.get(`/api/fits/${fit.id}`).expect(200)).body;
     expect(oldAfter.status).toBe('checked');
@@ -210,14 +214,14 @@ describe('Well K', () => {
     for (const k of [1e-5, 1e-4]) {
       const { recordId } = await insertSyntheticRecord(ts.ds, well.id, { kMetersPerSecond: k });
       const f = (await analyst.post(`/api/records/${recordId}/fits`, { method: 'hvorslev' }).expect(201)).body;
-      await analyst.post(`/api/fits/${f.id}/submit`).expect(200);
+      await analyst.post(`/api/fits/${f.id}/submit`, reasonsFor(f)).expect(200);
       await checker.post(`/api/fits/${f.id}/check`, { decision: 'checked' }).expect(200);
       ks.push(f.result.kMetersPerSecond);
     }
     // A Draft and an Awaiting-check fit do not count.
     const { recordId } = await insertSyntheticRecord(ts.ds, well.id, { kMetersPerSecond: 1e-2 });
     const pending = (await analyst.post(`/api/records/${recordId}/fits`, { method: 'hvorslev' }).expect(201)).body;
-    await analyst.post(`/api/fits/${pending.id}/submit`).expect(200);
+    await analyst.post(`/api/fits/${pending.id}/submit`, reasonsFor(pending)).expect(200);
 
     const wk = (await viewer.get(`/api/wells/${well.id}/k`).expect(200)).body;
     const logs = ks.map(Math.log10);

@@ -1,4 +1,6 @@
 import type { DataSource } from 'typeorm';
+import { unansweredFlags } from '@shared/hydraulics/flag-answers';
+import type { Fit } from '@shared/schemas/fits';
 import type { Config } from '../../config';
 import { createFitsService, type Actor } from '../../features/fits/fits.service';
 import { discardingOutbox } from '../../features/mail/outbox';
@@ -14,6 +16,20 @@ import { DEMO_USERS } from './demo';
 type Plan = 'checked' | 'checked-by-lead' | 'awaiting-check' | 'sent-back' | 'draft';
 // Most wells carry a Checked fit so the map has colour; a few fits stand in every other state.
 const PLANS: Plan[] = ['checked', 'checked', 'checked-by-lead', 'checked', 'awaiting-check', 'checked', 'sent-back', 'checked', 'draft', 'checked'];
+
+/** Reasons the invented analyst gives for keeping a fit despite a flag that changes K (see flag-answers.ts). */
+const DEMO_REASONS: Record<string, string> = {
+  'window-outside-recommended': 'Too few readings fall in the recommended range of this record; the wider window was kept (invented demo reason).',
+  'concave-upward': 'Kept the anchored line so the Checker can compare it with a free line over the later segment (invented demo reason).',
+  'h0-mismatch': 'The slug volume in the field notes is doubtful; H0 is read from the record (invented demo reason).',
+  'intake-screen-in-filter-pack': 'The filter pack is finer than the formation here, so the screen radius is the intake (invented demo reason).',
+};
+
+/** The demo analyst's answers to a fit's open K-changing flags: a reason for each. */
+export function demoReasons(fit: Fit): Record<string, string> {
+  const choices = { method: fit.method, line: fit.line, window: fit.result.window };
+  return Object.fromEntries(unansweredFlags(fit.flags, choices, fit.flagReasons).map((code) => [code, DEMO_REASONS[code] ?? 'Kept as prepared for the demo scenario (invented demo reason).']));
+}
 
 /** Fits in every state of the lifecycle, prepared and checked by different demo users. */
 export async function seedDemoFits(ds: DataSource, config: Config): Promise<number> {
@@ -52,7 +68,7 @@ export async function seedDemoFits(ds: DataSource, config: Config): Promise<numb
     if (!fit) continue;
     made++;
     if (plan === 'draft') continue;
-    await svc.submit(fit.id, preparer);
+    await svc.submit(fit.id, preparer, demoReasons(fit));
     if (plan === 'awaiting-check') continue;
     if (plan === 'sent-back') {
       await svc.check(fit.id, reviewer, 'sent-back', 'The early readings curve upward: try a free line over the later segment, and confirm the screen length from the boring log.');

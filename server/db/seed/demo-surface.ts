@@ -9,6 +9,7 @@ import { Site } from '../../features/sites/site.entity';
 import { User } from '../../features/users/user.entity';
 import { Well } from '../../features/wells/well.entity';
 import { DEMO_USERS } from './demo';
+import { demoReasons } from './demo-fits';
 import { seedDemoChannelRecords } from './demo-records';
 import { DEMO_ORIGIN } from './demo-wells';
 
@@ -41,7 +42,7 @@ export async function seedDemoSurface(ds: DataSource, config: Config): Promise<v
   const recordIds = await ds.transaction((m) => seedDemoChannelRecords(m, site));
   for (const recordId of recordIds) {
     const fit = await fits.create(recordId, as(analyst, 'Analyst'), { method: 'hvorslev', line: 'anchored', geometry: {}, options: { allowOscillation: false }, note: '' });
-    await fits.submit(fit.id, as(analyst, 'Analyst'));
+    await fits.submit(fit.id, as(analyst, 'Analyst'), demoReasons(fit));
     await fits.check(fit.id, as(checker, 'Checker'), 'checked', '');
   }
 

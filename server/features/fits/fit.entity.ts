@@ -87,6 +87,14 @@ export class FitEntity {
   @Column('simple-json')
   flags: unknown[];
 
+  /** The analyst's reasons for keeping the fit despite a flag that changes K, by flag code. */
+  @Column('simple-json', { default: '{}' })
+  flagReasons: Record<string, string>;
+
+  /** Flags that changed K and were resolved by applying their suggested action. */
+  @Column('simple-json', { default: '[]' })
+  resolvedFlags: ResolvedFlag[];
+
   /** Copied out of `result` so Well K and the map can aggregate without parsing JSON. */
   @Column('real')
   kMetersPerSecond: number;
@@ -119,4 +127,13 @@ export class FitEntity {
 
   @Column('datetime')
   updatedAt: Date;
+}
+
+export interface ResolvedFlag {
+  code: string;
+  message: string;
+  /** The action applied, as its button said. */
+  action: string;
+  byId: string;
+  at: string;
 }

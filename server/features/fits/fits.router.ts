@@ -3,6 +3,7 @@ import { z } from 'zod';
 import { errorBodySchema } from '@shared/schemas/common';
 import {
   checkBodySchema,
+  submitBodySchema,
   checkQueueSchema,
   fitAuditSchema,
   fitBodySchema,
@@ -69,9 +70,13 @@ export function fitsRoutes(ctx: AppContext): RouteDef[] {
     },
     {
       method: 'post', path: '/api/fits/:fitId/submit', tag: 'Fits', summary: 'Submit a Draft or Sent-back fit for checking; e-mails the site’s Checkers',
-      params: fitParams,
-      responses: { 200: { description: 'Awaiting check', schema: fitSchema }, 400: err('Not a Draft or Sent-back fit'), 403: err('Not the preparer') },
-      handler: (req) => svc.submit(String(req.params.fitId), actor(req)),
+      params: fitParams, body: submitBodySchema,
+      responses: {
+        200: { description: 'Awaiting check', schema: fitSchema },
+        400: err('Not a Draft or Sent-back fit, or a flag that changes K is neither resolved nor given a reason (FLAGS_UNANSWERED; each named under reasons.<code>)'),
+        403: err('Not the preparer'),
+      },
+      handler: (req) => svc.submit(String(req.params.fitId), actor(req), req.body.reasons),
     },
     {
       method: 'post', path: '/api/fits/:fitId/check', tag: 'Fits', summary: 'Check a fit, or send it back with a comment (Checker, Lead; never the preparer); e-mails the preparer',

@@ -2,6 +2,8 @@ import { In, IsNull, Not, type EntityManager } from 'typeorm';
 import type { z } from 'zod';
 import { analyzeReduced, type FitResult } from '@shared/hydraulics/analyze';
 import { EngineInputError, OscillatingResponseError } from '@shared/hydraulics/errors';
+import { answeredByFit, flagAction, flagKind, unansweredFlags, type FitChoices } from '@shared/hydraulics/flag-answers';
+import type { QcFlag } from '@shared/hydraulics/flags';
 import type { WellGeometry } from '@shared/hydraulics/geometry';
 import type { ReducedRecord } from '@shared/hydraulics/reduction';
 import { wellK } from '@shared/hydraulics/well-k';
@@ -25,7 +27,7 @@ import { Site } from '../sites/site.entity';
 import { User } from '../users/user.entity';
 import { Well } from '../wells/well.entity';
 import { FitEventEntity } from './fit-event.entity';
-import { FitEntity, type StoredFitResult } from './fit.entity';
+import { FitEntity, type ResolvedFlag, type StoredFitResult } from './fit.entity';
 import { checkedMail, sentBackMail, awaitingCheckMail } from './fits.mail';
 
 type FitBody = z.output<typeof fitBodySchema>;
@@ -159,6 +161,9 @@ function newDraft(result: StoredFitResult, flags: unknown[], preparedById: strin
     supersededAt: null,
     result,
     flags,
+    // A new draft answers its own flags: reasons and resolutions are not carried over from a revised fit.
+    flagReasons: {},
+    resolvedFlags: [],
     kMetersPerSecond: result.kMetersPerSecond,
     preparedById,
     checkedById: null,
@@ -190,6 +195,23 @@ const paramsOf = (f: Pick<FitEntity, 'method' | 'line' | 'windowInput' | 'geomet
   material: f.options.material ?? null,
   note: f.note,
 });
+
+/** What the flag rules read of a stored fit. */
+function choicesOf(f: Pick<FitEntity, 'method' | 'line' | 'result'>): FitChoices {
+  return { method: f.method, line: f.line, window: { headMax: f.result.window.headMax, headMin: f.result.window.headMin } };
+}
+
+/**
+ * The record of a flag resolved by its suggested action: when the fit had the flag open and, after
+ * the change, the flag is gone or answered by the fit. Otherwise nothing is recorded.
+ */
+function resolvedBy(code: string, before: FitEntity, after: Pick<FitEntity, 'method' | 'line' | 'result' | 'flags'>, byId: string, now: Date): ResolvedFlag | null {
+  const had = (before.flags as QcFlag[]).find((f) => f.code === code);
+  if (!had || flagKind(code) !== 'changes-k' || answeredByFit(had, choicesOf(before))) return null;
+  const still = (after.flags as QcFlag[]).find((f) => f.code === code);
+  if (still && !answeredByFit(still, choicesOf(after))) return null;
+  return { code, message: had.message, action: flagAction(had, before.method)?.label ?? 'Changed the fit', byId, at: now.toISOString() };
+}
 
 export function createFitsService({ ds, config, outbox }: AppContext) {
   const link = (siteId: string, fitId: string) => `${config.PUBLIC_URL.replace(/\/$/, '')}/sites/${siteId}/fits/${fitId}`;
@@ -235,6 +257,8 @@ export function createFitsService({ ds, config, outbox }: AppContext) {
       note: fit.note,
       result: fit.result,
       flags: fit.flags as Fit['flags'],
+      flagReasons: fit.flagReasons ?? {},
+      resolvedFlags: await resolvedFlagsDto(fit),
       preparedBy: { id: fit.preparedById, name: prep?.name ?? '(removed account)' },
       checkedBy: fit.checkedById ? { id: fit.checkedById, name: checker?.name ?? '(removed account)' } : null,
       checkComment: fit.checkComment,
@@ -244,6 +268,14 @@ export function createFitsService({ ds, config, outbox }: AppContext) {
       updatedAt: fit.updatedAt.toISOString(),
       can: can(fit, actor),
     };
+  }
+
+  async function resolvedFlagsDto(fit: FitEntity): Promise<Fit['resolvedFlags']> {
+    const list = fit.resolvedFlags ?? [];
+    if (list.length === 0) return [];
+    const users = await ds.getRepository(User).find({ where: [...new Set(list.map((r) => r.byId))].map((id) => ({ id })), select: { id: true, name: true } });
+    const names = new Map(users.map((u) => [u.id, u.name]));
+    return list.map((r) => ({ code: r.code, message: r.message, action: r.action, at: r.at, by: { id: r.byId, name: names.get(r.byId) ?? '(removed account)' } }));
   }
 
   async function getEntity(fitId: string): Promise<FitEntity> {
@@ -350,9 +382,11 @@ export function createFitsService({ ds, config, outbox }: AppContext) {
         await event(m, rev.id, 'revision-started', actor.user.id, { fromFitId: fit.id, fromRevision: fit.revision, changes });
         return { fit: rev, created: true };
       }
+      const resolved = patch.resolving ? resolvedBy(patch.resolving, fit, { ...next, result, flags }, actor.user.id, now) : null;
       Object.assign(fit, next, { result, flags, kMetersPerSecond: result.kMetersPerSecond, updatedAt: now });
+      if (resolved) fit.resolvedFlags = [...(fit.resolvedFlags ?? []).filter((r) => r.code !== resolved.code), resolved];
       await repo.save(fit);
-      await event(m, fit.id, 'parameters-changed', actor.user.id, { changes, kMetersPerSecond: result.kMetersPerSecond });
+      await event(m, fit.id, 'parameters-changed', actor.user.id, { changes, kMetersPerSecond: result.kMetersPerSecond, ...(resolved ? { resolved: resolved.code } : {}) });
       return { fit, created: false };
     });
     return { fit: await toDto(out.fit, actor), created: out.created };
@@ -363,7 +397,7 @@ export function createFitsService({ ds, config, outbox }: AppContext) {
     return ms.map((x) => x.user).filter((u) => !u.disabled);
   }
 
-  async function submit(fitId: string, actor: Actor): Promise<Fit> {
+  async function submit(fitId: string, actor: Actor, reasons: Record<string, string> = {}): Promise<Fit> {
     requirePreparer(actor);
     const fit = await ds.transaction(async (m) => {
       const repo = m.getRepository(FitEntity);
@@ -373,11 +407,24 @@ export function createFitsService({ ds, config, outbox }: AppContext) {
         throw badRequest(`A fit that is ${FIT_STATUS_LABELS[f.status]} cannot be submitted; only a Draft or a Sent-back fit can`, { status: FIT_STATUS_LABELS[f.status] }, 'LIFECYCLE');
       }
       if (f.preparedById !== actor.user.id) throw forbidden('Only the person who prepared this fit can submit it', 'NOT_PREPARER');
+      // Flags that change K are answered first: by the fit (the suggested action applied) or by a reason.
+      const given = Object.fromEntries(Object.entries({ ...f.flagReasons, ...reasons }).filter(([, r]) => r.trim() !== ''));
+      const flags = f.flags as QcFlag[];
+      const open = unansweredFlags(flags, choicesOf(f), given);
+      if (open.length > 0) {
+        const fields = Object.fromEntries(open.map((code) => [`reasons.${code}`, 'Apply the suggested action, or say why this fit stands as it is']));
+        throw badRequest(
+          `${open.length === 1 ? 'A flag changes' : `${open.length} flags change`} K and ${open.length === 1 ? 'is' : 'are'} not answered: apply the suggested action, or give a reason for the Checker`,
+          fields,
+          'FLAGS_UNANSWERED',
+        );
+      }
+      const kept = Object.fromEntries(Object.entries(given).filter(([code]) => flags.some((fl) => fl.code === code)));
       const now = new Date();
-      const res = await repo.update({ id: f.id, status: f.status }, { status: 'awaiting-check', submittedAt: now, updatedAt: now });
+      const res = await repo.update({ id: f.id, status: f.status }, { status: 'awaiting-check', submittedAt: now, updatedAt: now, flagReasons: kept });
       if (!res.affected) throw badRequest('The fit changed meanwhile; reload it', undefined, 'LIFECYCLE');
-      await event(m, f.id, 'submitted', actor.user.id, { from: f.status });
-      Object.assign(f, { status: 'awaiting-check', submittedAt: now, updatedAt: now });
+      await event(m, f.id, 'submitted', actor.user.id, { from: f.status, ...(Object.keys(kept).length ? { reasons: kept } : {}) });
+      Object.assign(f, { status: 'awaiting-check', submittedAt: now, updatedAt: now, flagReasons: kept });
       const checkers = (await siteMembersWithRole(f.siteId, ['Checker'])).filter((u) => u.id !== actor.user.id);
       const [site, well] = await Promise.all([
         m.getRepository(Site).findOneOrFail({ where: { id: f.siteId } }),

@@ -130,8 +130,9 @@ export function updateFit(fitId: string, body: FitPatch) {
   return api.patch(`/api/fits/${seg(fitId)}`, body, fitSchema);
 }
 
-export function submitFit(fitId: string) {
-  return api.post(`/api/fits/${seg(fitId)}/submit`, {}, fitSchema);
+/** Submit with a reason for each flag that changes K and is not answered by the fit. */
+export function submitFit(fitId: string, reasons: Record<string, string> = {}) {
+  return api.post(`/api/fits/${seg(fitId)}/submit`, { reasons }, fitSchema);
 }
 
 export function checkFit(fitId: string, body: CheckBody) {

@@ -41,6 +41,8 @@ export function fit(over: Partial<Fit> = {}): Fit {
       kReference: 'k',
     },
     flags: [],
+    flagReasons: {},
+    resolvedFlags: [],
     preparedBy: { id: 'u-analyst', name: 'Tomas Ferreira' },
     checkedBy: null,
     checkComment: null,

@@ -93,6 +93,17 @@ function EventDetails({ event, siteId }: { event: FitEvent; siteId: string }) {
   const changes = typeof d.changes === 'object' && d.changes !== null ? Object.entries(d.changes as Record<string, unknown>).filter(([, v]) => isChange(v)) : [];
   const items: ReactNode[] = [];
   if (event.kind === 'submitted' && typeof d.from === 'string') items.push(<li key="from">From {describeAuditValue(d.from)}</li>);
+  if (event.kind === 'submitted' && typeof d.reasons === 'object' && d.reasons !== null) {
+    for (const [code, reason] of Object.entries(d.reasons as Record<string, unknown>)) {
+      items.push(
+        <li key={`reason-${code}`} className="break-words">
+          <span className="text-slate-500">Reason for keeping the fit despite “{code}”: </span>
+          {String(reason)}
+        </li>,
+      );
+    }
+  }
+  if (typeof d.resolved === 'string') items.push(<li key="resolved">Applied the suggested action for the “{d.resolved}” flag</li>);
   if (event.kind === 'created') {
     items.push(
       <li key="created">

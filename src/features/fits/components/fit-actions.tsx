@@ -11,8 +11,17 @@ import { checkFit, fitKeys, invalidateFit, submitFit } from '../api';
 
 type Decision = 'checked' | 'sent-back';
 
+/** What Submit sends: the analyst's reasons for K-changing flags kept as they are. */
+export interface SubmitAnswers {
+  reasons: Record<string, string>;
+  /** K-changing flags neither resolved nor given a reason: Submit waits for them. */
+  unanswered: number;
+  /** The server's field errors (reasons.<code>) when it refuses. */
+  onRefused: (fields: Record<string, string>) => void;
+}
+
 /** Submit, Check and Send back, as `fit.can` allows; the server enforces the same rules. */
-export function FitActions({ fit, dirty, onChanged }: { fit: Fit; dirty: boolean; onChanged?: (fit: Fit) => void }) {
+export function FitActions({ fit, dirty, onChanged, submitAnswers }: { fit: Fit; dirty: boolean; onChanged?: (fit: Fit) => void; submitAnswers?: SubmitAnswers }) {
   const queryClient = useQueryClient();
   const toast = useToast();
   const [decision, setDecision] = useState<Decision | null>(null);
@@ -28,9 +37,13 @@ export function FitActions({ fit, dirty, onChanged }: { fit: Fit; dirty: boolean
   };
 
   const submit = useMutation({
-    mutationFn: () => submitFit(fit.id),
+    mutationFn: () => submitFit(fit.id, Object.fromEntries(Object.entries(submitAnswers?.reasons ?? {}).filter(([, r]) => r.trim() !== ''))),
     onSuccess: (next) => done(next, 'Submitted for check: the site’s Checkers have been e-mailed.'),
+    onError: (error) => {
+      if (isApiError(error) && error.code === 'FLAGS_UNANSWERED' && error.fields) submitAnswers?.onRefused(error.fields);
+    },
   });
+  const waiting = submitAnswers?.unanswered ?? 0;
   const check = useMutation({
     mutationFn: (d: Decision) => checkFit(fit.id, { decision: d, comment: comment.trim() }),
     onSuccess: async (next, d) => {
@@ -57,9 +70,21 @@ export function FitActions({ fit, dirty, onChanged }: { fit: Fit; dirty: boolean
   return (
     <>
       {fit.can.submit ? (
-        <Button onClick={() => submit.mutate()} pending={submit.isPending} disabled={dirty} title={dirty ? 'Save the changes first' : undefined}>
-          Submit for check
-        </Button>
+        <>
+          <Button
+            onClick={() => submit.mutate()}
+            pending={submit.isPending}
+            disabled={dirty || waiting > 0}
+            title={dirty ? 'Save the changes first' : waiting > 0 ? 'Answer the flags that change K first' : undefined}
+          >
+            Submit for check
+          </Button>
+          {waiting > 0 && !dirty ? (
+            <p className="text-xs text-amber-900" data-testid="submit-waiting">
+              {waiting === 1 ? 'One QC flag changes K' : `${waiting} QC flags change K`}: apply the suggested action or give a reason (under Result) before submitting.
+            </p>
+          ) : null}
+        </>
       ) : null}
       {fit.can.check && decision === null ? (
         <>

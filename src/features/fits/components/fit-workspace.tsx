@@ -33,11 +33,12 @@ import {
 import { defaultTimeUnit, PLOT_TIME_UNITS, recoveryEndSeconds, type PlotTimeUnit, type TimeRange } from '../plot-math';
 import { residuals, runPreview, toReducedRecord, viewFromPreview, viewFromStored, windowFilter, type ResultView } from '../preview';
 import { Cautions } from './cautions';
-import { FitActions } from './fit-actions';
+import { FitActions, type SubmitAnswers } from './fit-actions';
 import { FitPlot } from './fit-plot';
 import { FitResults } from './fit-results';
 import { GeometryFields } from './geometry-fields';
-import { QcFlagList } from './qc-flags';
+import { QcFlagList, type FlagAnswering } from './qc-flags';
+import { unansweredFlags, type FitChoices, type FlagAction } from '@shared/hydraulics/flag-answers';
 import { WindowFields } from './window-fields';
 
 interface Inputs {
@@ -220,6 +221,38 @@ export function FitWorkspace({
     const b = body();
     if (b) save.mutate(b);
   };
+
+  // Flags that change K: answered by their one-click action (on the saved fit) or by a reason, before submit.
+  const [reasons, setReasons] = useState<Record<string, string>>(fit?.flagReasons ?? {});
+  const [submitErrors, setSubmitErrors] = useState<Record<string, string>>({});
+  const apply = useMutation({
+    mutationFn: ({ code, action }: { code: string; action: FlagAction }) => updateFit(fit!.id, { ...action.patch, resolving: code }),
+    onSuccess: async (saved, { action }) => {
+      queryClient.setQueryData(fitKeys.detail(saved.id), saved);
+      await invalidateFit(queryClient, saved, fit?.id);
+      toast.success(`Applied: ${action.label}.`);
+    },
+    onError: (error) => toast.error(describeError(error)),
+  });
+  const choices: FitChoices | null = view ? { method: inputs.method, line: inputs.line, window: view.window } : null;
+  const answering: FlagAnswering | null = choices
+    ? {
+        choices,
+        reasons,
+        onReasonChange: fit?.can.submit
+          ? (code, reason) => {
+              setReasons((r) => ({ ...r, [code]: reason }));
+              setSubmitErrors((e) => ({ ...e, [`reasons.${code}`]: '' }));
+            }
+          : null,
+        onApply: fit?.can.edit && showStored ? (code, action) => apply.mutate({ code, action }) : null,
+        applyingCode: apply.isPending ? apply.variables.code : null,
+        applyBlockedReason: fit === null ? 'save the Draft to apply it in one click' : dirty ? 'save or discard your changes first' : undefined,
+        errors: submitErrors,
+        resolved: fit?.resolvedFlags ?? [],
+      }
+    : null;
+  const unanswered = view && choices ? unansweredFlags(view.flags, choices, reasons).length : 0;
 
   const concave = view?.flags.some((f) => f.code === 'concave-upward') ?? false;
   const oscillationFlag = !showStored && preview?.kind === 'oscillating' ? preview.flag : null;
@@ -422,7 +455,7 @@ export function FitWorkspace({
         {view ? (
           <div className="space-y-2">
             <h3 className="text-sm font-semibold text-slate-900">QC flags</h3>
-            <QcFlagList flags={view.flags} />
+            <QcFlagList flags={view.flags} answering={answering} />
           </div>
         ) : null}
         <Cautions className="border-t border-slate-200 pt-3" />
@@ -447,6 +480,7 @@ export function FitWorkspace({
           setInputs(baseline);
           setRevising(false);
         }}
+        submit={{ reasons, unanswered, onRefused: setSubmitErrors }}
       />
       {wide ? (
         <div className="grid min-w-0 grid-cols-[minmax(0,1fr)_24rem] gap-6">
@@ -486,8 +520,11 @@ function WorkspaceBar({
   onDiscard,
   onRevise,
   onCancelRevision,
+  submit,
 }: {
   fit: Fit | null;
+  /** What submitting sends and awaits: the reasons, how many K-changing flags are unanswered, where refusals go. */
+  submit: SubmitAnswers;
   editable: boolean;
   revising: boolean;
   dirty: boolean;
@@ -549,7 +586,7 @@ function WorkspaceBar({
                 Start a revision
               </Button>
             ) : null}
-            {fit ? <FitActions fit={fit} dirty={dirty} /> : null}
+            {fit ? <FitActions fit={fit} dirty={dirty} submitAnswers={submit} /> : null}
           </div>
           <FormError message={saveError} />
         </div>

@@ -1,4 +1,8 @@
+import { useId } from 'react';
+import { flagAction, flagStanding, type FitChoices, type FlagAction, type FlagStanding } from '@shared/hydraulics/flag-answers';
 import type { QcFlag } from '@shared/hydraulics/flags';
+import type { Fit } from '@shared/schemas/fits';
+import { Button } from '@/components/ui/button';
 import { cn } from '@/lib/cn';
 import { formatQuantity } from '../format';
 
@@ -53,29 +57,70 @@ const DEFAULT_SUGGESTIONS: Partial<Record<string, string>> = {
   'too-few-readings': 'Widen the window.',
 };
 
-export function QcFlagList({ flags }: { flags: readonly QcFlag[] }) {
-  if (flags.length === 0) {
+/** How a flag stands against the fit, and what may be done about it here. */
+export interface FlagAnswering {
+  choices: FitChoices;
+  reasons: Readonly<Record<string, string>>;
+  /** Null: the reasons are shown, not edited (a Checker, or a fit awaiting check). */
+  onReasonChange: ((code: string, reason: string) => void) | null;
+  /** Null: the action is described, not offered (unsaved changes, or not the preparer). */
+  onApply: ((code: string, action: FlagAction) => void) | null;
+  applyingCode: string | null;
+  /** Why the action is not offered, when it is not. */
+  applyBlockedReason?: string;
+  /** Field errors of the last submit, by `reasons.<code>`. */
+  errors?: Readonly<Record<string, string>>;
+  resolved: readonly Fit['resolvedFlags'][number][];
+}
+
+const STANDING_TEXT: Record<FlagStanding, string> = {
+  open: 'Changes K — apply the suggested action or give a reason before submitting',
+  resolved: 'Resolved by this fit',
+  reasoned: 'Kept, with the analyst’s reason',
+  note: 'Note about the record',
+  warning: '',
+};
+
+export function QcFlagList({ flags, answering = null }: { flags: readonly QcFlag[]; answering?: FlagAnswering | null }) {
+  const stillResolved = answering ? answering.resolved.filter((r) => !flags.some((f) => f.code === r.code)) : [];
+  if (flags.length === 0 && stillResolved.length === 0) {
     return <p className="text-sm text-slate-600">No QC flags: the fit passes every check Kfield makes.</p>;
   }
   const order = { error: 0, warning: 1, info: 2 };
-  const sorted = [...flags].sort((a, b) => order[a.severity] - order[b.severity]);
+  const standingOf = (flag: QcFlag): FlagStanding | null => (answering ? flagStanding(flag, answering.choices, answering.reasons) : null);
+  const rank = (flag: QcFlag) => {
+    const st = standingOf(flag);
+    return st === 'open' ? -1 : st === 'resolved' || st === 'note' ? 3 : order[flag.severity];
+  };
+  const sorted = [...flags].sort((a, b) => rank(a) - rank(b));
   return (
     <ul className="space-y-2" aria-label="QC flags">
       {sorted.map((flag) => {
-        const s = SEVERITY[flag.severity];
+        const standing = standingOf(flag);
+        const quiet = standing === 'resolved' || standing === 'note';
+        const s = quiet ? SEVERITY.info : SEVERITY[flag.severity];
+        const action = answering && standing === 'open' ? flagAction(flag, answering.choices.method) : null;
+        const error = answering?.errors?.[`reasons.${flag.code}`];
+        const resolvedBy = standing === 'resolved' ? answering?.resolved.find((r) => r.code === flag.code) : undefined;
         return (
-          <li key={flag.code} className={cn('rounded-md border px-3 py-2 text-sm', s.tone)} data-flag={flag.code}>
+          <li key={flag.code} className={cn('rounded-md border px-3 py-2 text-sm', s.tone, standing === 'open' && 'ring-2 ring-amber-400')} data-flag={flag.code} data-standing={standing ?? undefined}>
+            {standing && STANDING_TEXT[standing] ? <p className="mb-1 pl-5 text-xs font-semibold tracking-wide uppercase opacity-80">{STANDING_TEXT[standing]}</p> : null}
             <p className="flex gap-2">
               <span aria-hidden="true" className={cn('shrink-0 text-xs leading-5', s.iconTone)}>
                 {s.icon}
               </span>
               <span>
-                <span className="sr-only">{s.label}: </span>
+                <span className="sr-only">{standing === 'resolved' ? 'Resolved' : standing === 'note' ? 'Note' : s.label}: </span>
                 {flag.message}
               </span>
             </p>
-            {(flag.suggestion ?? DEFAULT_SUGGESTIONS[flag.code]) ? (
+            {standing === 'resolved' ? (
+              <p className="mt-1 pl-5">{resolvedBy ? `${resolvedBy.action} — applied by ${resolvedBy.by.name}.` : 'The fit’s line and window answer it.'}</p>
+            ) : (flag.suggestion ?? DEFAULT_SUGGESTIONS[flag.code]) ? (
               <p className="mt-1 pl-5 font-medium">{flag.suggestion ?? DEFAULT_SUGGESTIONS[flag.code]}</p>
+            ) : null}
+            {answering && (standing === 'open' || standing === 'reasoned') ? (
+              <FlagAnswer flag={flag} action={action} answering={answering} error={error} />
             ) : null}
             <details className="mt-1 pl-5 text-xs opacity-80">
               <summary className="cursor-pointer">The numbers</summary>
@@ -89,6 +134,59 @@ export function QcFlagList({ flags }: { flags: readonly QcFlag[] }) {
           </li>
         );
       })}
+      {stillResolved.map((r) => (
+        <li key={`resolved-${r.code}`} className={cn('rounded-md border px-3 py-2 text-sm', SEVERITY.info.tone)} data-flag={r.code} data-standing="resolved">
+          <p className="mb-1 text-xs font-semibold tracking-wide uppercase opacity-80">Resolved</p>
+          <p>
+            <span className="line-through decoration-slate-400">{r.message}</span>
+          </p>
+          <p className="mt-1">
+            {r.action} — applied by {r.by.name}.
+          </p>
+        </li>
+      ))}
     </ul>
+  );
+}
+
+function FlagAnswer({ flag, action, answering, error }: { flag: QcFlag; action: FlagAction | null; answering: FlagAnswering; error?: string }) {
+  const reasonId = useId();
+  const reason = answering.reasons[flag.code] ?? '';
+  return (
+    <div className="mt-2 space-y-2 pl-5">
+      {action ? (
+        answering.onApply ? (
+          <Button size="sm" variant="secondary" pending={answering.applyingCode === flag.code} disabled={answering.applyingCode !== null} onClick={() => answering.onApply?.(flag.code, action)}>
+            {action.label}
+          </Button>
+        ) : (
+          <p className="text-xs">
+            Suggested: {action.label.charAt(0).toLowerCase() + action.label.slice(1)}
+            {answering.applyBlockedReason ? ` (${answering.applyBlockedReason})` : ''}.
+          </p>
+        )
+      ) : null}
+      {answering.onReasonChange ? (
+        <div>
+          <label htmlFor={reasonId} className="block text-xs font-medium">
+            {action ? 'Or keep this fit, and say why for the Checker' : 'Say why this fit stands, for the Checker'}
+          </label>
+          <textarea
+            id={reasonId}
+            rows={2}
+            maxLength={2000}
+            value={reason}
+            onChange={(e) => answering.onReasonChange?.(flag.code, e.target.value)}
+            aria-invalid={error ? true : undefined}
+            className="mt-1 block w-full rounded-md border border-slate-300 bg-white px-2 py-1 text-sm text-slate-900"
+          />
+          {error ? <p className="mt-1 text-xs font-medium text-red-700">{error}</p> : null}
+        </div>
+      ) : reason ? (
+        <p className="text-xs">
+          <span className="font-semibold">Analyst’s reason:</span> {reason}
+        </p>
+      ) : null}
+    </div>
   );
 }
