@@ -9,7 +9,7 @@ import { findMaterial, type MaterialId } from '../../shared/hydraulics/materials
 import type { ReductionSettings, ReferenceMode } from '../../shared/hydraulics/reduction';
 import { isKUnit, kFromSi, K_UNITS, type KUnit } from '../../shared/units/conductivity';
 import { isLengthUnit, lengthFromSi, lengthToSi, type LengthUnit } from '../../shared/units/length';
-import { isPressureUnit, pressureToSi, type PressureUnit } from '../../shared/units/pressure';
+import { isPressureUnit, pressureToSi, pressureToWaterHeadM, type PressureUnit } from '../../shared/units/pressure';
 import { isTimeColumnFormat, parseClockDuration, timeFromSi, timeToSi, type TimeColumnFormat } from '../../shared/units/time';
 import { createTimestampParser, type TimestampLayout } from '../../shared/units/timestamp';
 
@@ -34,7 +34,9 @@ Record:
   --geometry-units <unit>      length unit of the geometry, if it differs
   --reference depth|vented|absolute   depth below the measuring point (default), head above a
                                vented sensor, or absolute pressure (needs --baro)
-  --pressure-unit Pa|kPa|psi|mbar|hPa|mH2O|ftH2O   unit of absolute and barometric pressures
+  --pressure-unit Pa|kPa|psi|mbar|hPa|mH2O|ftH2O   unit of pressures: absolute and barometric
+                               (default Pa), or a vented sensor's gauge pressure, read as head
+                               P / (ρ g) with --density (and --static in the same unit)
   --baro <file.csv>            barometric record (time, pressure) on the same clock
   --density <kg/m3>            water density for pressures (default 1000)
   --time-unit s|min|h|d|mm:ss|timestamp   how the time column is written (default s)
@@ -204,6 +206,11 @@ export function main(argv: readonly string[], io: CliIo = nodeIo): string {
   const pressureUnitText = o['pressure-unit'] ?? 'Pa';
   if (!isPressureUnit(pressureUnitText)) throw new CliUsageError(`--pressure-unit: "${pressureUnitText}" is not a pressure unit`);
   const pressureUnit: PressureUnit = pressureUnitText;
+  if (reference === 'depth' && o['pressure-unit'] !== undefined) {
+    throw new CliUsageError('--pressure-unit: a depth below the measuring point is a length; use --units, or --reference vented or absolute for a pressure record');
+  }
+  // A vented record in a pressure unit: the gauge pressure is the water column above the sensor.
+  const ventedPressure = reference === 'vented' && o['pressure-unit'] !== undefined;
 
   const geo = (name: string, text: string | undefined): number | undefined => {
     const x = num(name, text);
@@ -231,11 +238,13 @@ export function main(argv: readonly string[], io: CliIo = nodeIo): string {
   const value =
     reference === 'absolute'
       ? Float64Array.from(columns.value, (p) => pressureToSi(p, pressureUnit, density))
-      : Float64Array.from(columns.value, (x) => lengthToSi(x, units));
+      : ventedPressure
+        ? Float64Array.from(columns.value, (p) => pressureToWaterHeadM(p, pressureUnit, density))
+        : Float64Array.from(columns.value, (x) => lengthToSi(x, units));
 
   const reduction: ReductionSettings = { reference };
   const staticLevel = num('static', o.static);
-  if (staticLevel !== undefined) reduction.staticLevelM = lengthToSi(staticLevel, units);
+  if (staticLevel !== undefined) reduction.staticLevelM = ventedPressure ? pressureToWaterHeadM(staticLevel, pressureUnit, density) : lengthToSi(staticLevel, units);
   if (o.start !== undefined) reduction.testStartSeconds = parseTime(o.start, '--start');
   if (reference === 'absolute') {
     if (o.baro === undefined) throw new CliUsageError('--baro is required with --reference absolute');

@@ -92,6 +92,14 @@ export const columnMappingSchema = z.object({ time: timeMappingSchema, valueColu
 
 const finite = (label: string) => z.number({ error: `${label} must be a number` }).refine(Number.isFinite, `${label} must be a finite number`);
 export const lengthValueSchema = z.object({ value: finite('The value'), unit: lengthUnitIdSchema });
+/** A static level: a length in the reference's terms, or (vented and absolute sensors) the water's gauge pressure above the sensor. */
+export const staticLevelSchema = z.object({
+  value: finite('Static level'),
+  unit: z.string({ error: 'Choose the unit of the static level' }).refine(
+    (u) => isLengthUnit(u) || isPressureUnit(u),
+    'Static level unit must be a length (m, cm, mm, ft, in) or a pressure (Pa, kPa, psi, mbar, hPa, mH2O, ftH2O)',
+  ),
+});
 export const volumeValueSchema = z.object({ value: finite('Slug volume').refine((v) => v > 0, 'Slug volume must be greater than 0'), unit: volumeUnitSchema });
 
 const testDateSchema = z.iso.date({ error: 'Test date must be a date, YYYY-MM-DD' });
@@ -119,12 +127,24 @@ export const loggerSettingsSchema = recordMetaSchema.extend({
   layout: fileLayoutSchema,
   mapping: columnMappingSchema,
   valueUnit: valueUnitSchema,
-  /** In the reference's terms: depth below the measuring point, or head above the sensor. Omitted: the mean of the pre-test readings. */
-  staticLevel: lengthValueSchema.optional(),
+  /**
+   * In the reference's terms: depth below the measuring point, or head above the sensor — for a
+   * vented or absolute sensor also as the water's pressure above the sensor in a pressure unit
+   * (converted with the water density). Omitted: the mean of the pre-test readings.
+   */
+  staticLevel: staticLevelSchema.optional(),
   /** Seconds after the first reading. Omitted: detected at the step. */
   testStartSeconds: finite('Test start').refine((v) => v >= 0, 'Test start cannot be before the first reading').optional(),
+  /**
+   * The test start as the crew wrote it: a time of day (14:32:05, in the time column's zone) for a
+   * record with timestamps, or an elapsed time after the first reading (1:30, 90 s) otherwise.
+   */
+  testStartText: z.string({ error: 'Test start must be text' }).trim().min(1, 'Test start is empty').max(40, 'Test start must be at most 40 characters').optional(),
   waterDensityKgM3: finite('Water density').refine((v) => v >= 900 && v <= 1100, 'Water density must lie between 900 and 1100 kg/m³').default(1000),
   barometric: barometricSettingsSchema.optional(),
+}).refine((v) => v.testStartSeconds === undefined || v.testStartText === undefined, {
+  path: ['testStartText'],
+  message: 'Give the test start once: as seconds after the first reading or as a time, not both',
 });
 export type LoggerSettings = z.output<typeof loggerSettingsSchema>;
 export type LoggerSettingsInput = z.input<typeof loggerSettingsSchema>;
@@ -151,7 +171,7 @@ export const tapeBodySchema = recordMetaSchema.extend({
   units: lengthUnitIdSchema,
   /** Static water level, depth below the measuring point in `units`. Omitted: the mean of readings before the test start. */
   static: finite('Static level').optional(),
-  /** In the readings' time format. Omitted: detected at the largest step. */
+  /** In the readings' time format, or as elapsed-time text (1:30, 90 s, 1.5 min). Omitted: detected at the largest step. */
   testStart: z.union([finite('Test start'), z.string().trim().min(1)]).optional(),
 });
 export type TapeBody = z.output<typeof tapeBodySchema>;

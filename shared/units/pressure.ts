@@ -72,3 +72,11 @@ export function waterHeadM(pressurePa: number, waterDensityKgM3: number): number
   requirePositive('waterDensityKgM3', waterDensityKgM3);
   return pressurePa / (waterDensityKgM3 * STANDARD_GRAVITY);
 }
+
+/**
+ * Head of water above a sensor from a gauge (vented or barometrically compensated) pressure
+ * typed in `unit`: h = P / (ρ g), with the record's water density. 1 psi at 1000 kg/m³ → 0.70307 m.
+ */
+export function pressureToWaterHeadM(value: number, unit: PressureUnit, waterDensityKgM3: number): number {
+  return waterHeadM(value * pascalsPer(unit, waterDensityKgM3), waterDensityKgM3);
+}

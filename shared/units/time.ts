@@ -53,3 +53,24 @@ export function parseClockDuration(text: string, field = 'time'): number {
   const total = hours * 3600 + minutes * 60 + seconds;
   return m[1] ? -total : total;
 }
+
+const ELAPSED_UNIT_WORDS: Readonly<Record<string, TimeUnit>> = {
+  s: 's', sec: 's', secs: 's', second: 's', seconds: 's',
+  min: 'min', mins: 'min', minute: 'min', minutes: 'min', m: 'min',
+  h: 'h', hr: 'h', hrs: 'h', hour: 'h', hours: 'h',
+};
+
+/**
+ * An elapsed time as a person writes it: "1:30" or "1:02:03" (mm:ss, h:mm:ss), "90 s", "1.5 min",
+ * "2 h", or a bare number in `bareUnit`. A decimal comma is accepted.
+ */
+export function parseElapsedText(text: string, bareUnit: TimeUnit, field = 'time'): number {
+  const t = text.trim();
+  if (t.includes(':')) return parseClockDuration(t, field);
+  const m = /^([+-]?(?:\d+(?:[.,]\d*)?|[.,]\d+))\s*([a-z]*)\.?$/i.exec(t);
+  const unit = m ? (m[2] === '' ? bareUnit : ELAPSED_UNIT_WORDS[m[2].toLowerCase()]) : undefined;
+  if (!m || !unit) {
+    throw new EngineInputError(field, `"${text}" is not an elapsed time: write mm:ss (1:30), h:mm:ss, or a number with s, min or h (90 s)`);
+  }
+  return timeToSi(Number(m[1].replace(',', '.')), unit);
+}

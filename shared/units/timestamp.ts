@@ -153,3 +153,30 @@ function parseOffsetMs(text: string): number {
 export function parseTimestamp(text: string, options: TimestampOptions): number {
   return createTimestampParser(options)(text);
 }
+
+const CLOCK_TIME = /^\s*(\d{1,2}):(\d{2})(?::(\d{2})(?:[.,](\d+))?)?\s*([AaPp][Mm])?\s*$/;
+
+/**
+ * A time of day typed for a timestamped record ("14:32", "14:32:05", "2:32 PM"), as seconds since
+ * 1970 in the record's time zone: on the calendar day of `fromSeconds` (the first reading), or the
+ * next day when that falls before it (a record that runs past midnight). A full timestamp in ISO
+ * form (2026-11-20 14:32:05) is read as it stands.
+ */
+export function clockTimeToEpochSeconds(text: string, timeZone: string, fromSeconds: number, field = 'time'): number {
+  if (/^\s*\d{4}-\d{2}-\d{2}/.test(text)) return createTimestampParser({ layout: 'iso', timeZone })(text.trim(), field);
+  const m = CLOCK_TIME.exec(text);
+  if (!m) throw new EngineInputError(field, `"${text}" is not a time of day: write hh:mm or hh:mm:ss (14:32:05), or a date and time (2026-11-20 14:32:05)`);
+  let hour = Number(m[1]);
+  const minute = Number(m[2]);
+  const second = m[3] === undefined ? 0 : Number(m[3]) + (m[4] === undefined ? 0 : Number(`0.${m[4]}`));
+  if (m[5]) {
+    if (hour < 1 || hour > 12) throw new EngineInputError(field, `"${text}" has hour ${hour}; with AM/PM it must be 1–12`);
+    hour = (hour % 12) + (m[5].toUpperCase() === 'PM' ? 12 : 0);
+  }
+  if (hour > 23 || minute > 59 || second >= 60) throw new EngineInputError(field, `"${text}" is not a valid time of day`);
+  const fromMs = fromSeconds * 1000;
+  const dayStartWallMs = Math.floor((fromMs + zoneOffsetMs(timeZone, fromMs)) / DAY_MS) * DAY_MS;
+  const at = (dayWallMs: number) => zonedWallToUtcMs(timeZone, dayWallMs + (hour * 60 + minute) * 60_000) / 1000 + second;
+  const sameDay = at(dayStartWallMs);
+  return sameDay < fromSeconds - 0.5 ? at(dayStartWallMs + DAY_MS) : sameDay;
+}

@@ -4,8 +4,9 @@ import { parseSeriesFromBytes, type ParsedSeries } from '@shared/records/parse';
 import type { ColumnMapping, FileLayout } from '@shared/records/types';
 import type { LoggerSettings, TapeBody } from '@shared/schemas/records';
 import { isLengthUnit, lengthSeriesToSi, lengthToSi, type LengthUnit } from '@shared/units/length';
-import { isPressureUnit, pascalsPer, STANDARD_GRAVITY, type PressureUnit } from '@shared/units/pressure';
-import { parseClockDuration, timeToSi } from '@shared/units/time';
+import { isPressureUnit, pascalsPer, pressureToWaterHeadM, STANDARD_GRAVITY, type PressureUnit } from '@shared/units/pressure';
+import { parseClockDuration, parseElapsedText, timeToSi } from '@shared/units/time';
+import { clockTimeToEpochSeconds } from '@shared/units/timestamp';
 import { volumeToSi } from '@shared/units/volume';
 
 /** Everything an import produces before it is stored: the reduction and what to keep about it. */
@@ -118,6 +119,31 @@ export function readBarometric(input: LoggerInput, recordClock: 'epoch' | 'elaps
   return { timeSeconds, pressurePa };
 }
 
+/** The entered static level in metres, in the reference's terms; a pressure is the water's above the sensor, h = P / (ρ g). */
+export function staticLevelToSi(level: { value: number; unit: string }, reference: ReductionSettings['reference'], densityKgM3: number): number {
+  if (isLengthUnit(level.unit)) return lengthToSi(level.value, level.unit);
+  if (isPressureUnit(level.unit)) {
+    if (reference === 'depth') {
+      throw new EngineInputError('settings.staticLevel.unit', `a depth below the measuring point is a length: choose m, cm, mm, ft or in (got "${level.unit}")`);
+    }
+    return pressureToWaterHeadM(level.value, level.unit, densityKgM3);
+  }
+  throw new EngineInputError('settings.staticLevel.unit', `unknown unit "${level.unit}"`);
+}
+
+/** The typed test start → seconds on the record's clock: a time of day for timestamps, an elapsed time after the first reading otherwise. */
+function testStartFromText(text: string, clock: 'epoch' | 'elapsed', timeZone: string, times: Float64Array): number {
+  const field = 'settings.testStartText';
+  const first = times[0];
+  const last = times[times.length - 1];
+  const at = clock === 'epoch' ? clockTimeToEpochSeconds(text, timeZone, first, field) : first + parseElapsedText(text, 's', field);
+  if (at < first || at > last) {
+    const span = clock === 'epoch' ? `${new Date(first * 1000).toISOString()} to ${new Date(last * 1000).toISOString()} (UTC)` : `0 to ${Number((last - first).toPrecision(6))} s after the first reading`;
+    throw new EngineInputError(field, `"${text}" is outside the record, which runs from ${span}`);
+  }
+  return at;
+}
+
 /** A logger upload → the engine's reduction. Throws EngineInputError (including RecordFileError) for bad input. */
 export function readLogger(input: LoggerInput): ReadRecord {
   const { settings } = input;
@@ -130,8 +156,11 @@ export function readLogger(input: LoggerInput): ReadRecord {
     reference: settings.reference,
     waterDensityKgM3: settings.waterDensityKgM3,
     ...(barometric ? { barometric } : {}),
-    ...(!input.suggestOnly && settings.staticLevel ? { staticLevelM: lengthToSi(settings.staticLevel.value, settings.staticLevel.unit) } : {}),
+    ...(!input.suggestOnly && settings.staticLevel ? { staticLevelM: staticLevelToSi(settings.staticLevel, settings.reference, settings.waterDensityKgM3) } : {}),
     ...(!input.suggestOnly && settings.testStartSeconds !== undefined ? { testStartSeconds: first + settings.testStartSeconds } : {}),
+    ...(!input.suggestOnly && settings.testStartText !== undefined
+      ? { testStartSeconds: testStartFromText(settings.testStartText, parsed.clock, settings.mapping.time.timeZone ?? 'UTC', parsed.timeSeconds) }
+      : {}),
   };
   const reduced = reduceWithFields(parsed.timeSeconds, value, reduction, 'logger');
   const zone = settings.mapping.time.timeZone ?? 'UTC';
@@ -188,6 +217,12 @@ function tapeSeconds(value: number | string, format: TapeBody['timeFormat'], fie
   return timeToSi(n, format);
 }
 
+/** The tape test start: in the readings' time format, or as elapsed-time text (1:30, 90 s, 1.5 min). */
+function tapeStartSeconds(value: number | string, format: TapeBody['timeFormat']): number {
+  if (typeof value === 'number') return tapeSeconds(value, format, 'testStart');
+  return parseElapsedText(value, format === 'min' ? 'min' : 's', 'testStart');
+}
+
 /** Typed tape readings → the engine's reduction, with errors naming the reading (readings.3.time). */
 export function readTape(body: TapeBody): ReadRecord {
   const n = body.readings.length;
@@ -209,7 +244,7 @@ export function readTape(body: TapeBody): ReadRecord {
   const reduction: ReductionSettings = {
     reference: 'depth',
     ...(body.static !== undefined ? { staticLevelM: lengthToSi(body.static, unit) } : {}),
-    ...(body.testStart !== undefined ? { testStartSeconds: tapeSeconds(body.testStart, body.timeFormat, 'testStart') } : {}),
+    ...(body.testStart !== undefined ? { testStartSeconds: tapeStartSeconds(body.testStart, body.timeFormat) } : {}),
   };
   const reduced = reduceWithFields(t, v, reduction, 'tape');
   return {

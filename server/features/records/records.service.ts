@@ -49,6 +49,8 @@ const FIELD_LABELS: Readonly<Record<string, string>> = {
   readings: 'The tape readings',
   'settings.staticLevel': 'The static level',
   'settings.testStartSeconds': 'The test start',
+  'settings.testStartText': 'The test start',
+  'settings.staticLevel.unit': 'The static level',
   static: 'The static level',
   testStart: 'The test start',
 };

@@ -36,6 +36,24 @@ describe('the fit command line', () => {
     expect(out).toContain('Test start: 2024-07-04T22:00:10.000Z (detected)');
   });
 
+  it('reads a vented record in psi as head P / (ρ g) with the density, the static level in psi too, and gives the same K', () => {
+    // The depth fixture as a vented sensor 10 m below the measuring point: head = 10 − depth (m), written in psi (1 psi = 6894.757 Pa, NIST SP 811).
+    const psiPer = (headM: number, rho: number) => (headM * rho * 9.80665) / 6894.757293168;
+    const rows = readFileSync(fixture, 'utf8').split('\n').filter((l) => /^\d/.test(l)).map((l) => l.split(',').map(Number));
+    for (const rho of [1000, 998.2071]) {
+      const csv = ['t (s),p (psi)', ...rows.map(([t, d]) => `${t},${psiPer(10 - d, rho).toFixed(9)}`)].join('\n');
+      const args = ['vented.csv', ...hvorslev, '--reference', 'vented', '--pressure-unit', 'psi', '--density', String(rho)];
+      expect(main(args, { readFile: () => csv })).toContain('K = 1.000e-5 m/s');
+      const withStatic = main([...args, '--static', String(psiPer(8, rho))], { readFile: () => csv });
+      expect(withStatic).toContain('K = 1.000e-5 m/s');
+      expect(withStatic).toMatch(/Static level: 8 m \(entered\)/);
+    }
+  });
+
+  it('refuses a pressure unit for a depth record', () => {
+    expect(() => main([fixture, ...hvorslev, '--pressure-unit', 'kPa'])).toThrow(/--pressure-unit: a depth below the measuring point is a length/);
+  });
+
   it('prints the flags of a fit outside the recommended window', () => {
     const out = main([fixture, ...hvorslev, '--window-head', '1,0.5', '--line', 'free']);
     expect(out).toContain('[warning] window-outside-recommended: The window spans H/H0 1–0.5');
