@@ -5,7 +5,7 @@ import type { QcFlag } from './flags';
 import { boreholeRadiusOf, bouwerRiceRadiusOf, casingRadiusForFlow, intakeRadiusOf, validateGeometry, type WellGeometry } from './geometry';
 import { hvorslevK, hvorslevShape, type HvorslevResult } from './hvorslev';
 import { findMaterial, type MaterialId } from './materials';
-import { concaveUpwardFlag, fitFlags, h0Flag, intakeScreenInFilterPackFlag, kFlags, oscillationFlag, shapeFactorFlags } from './qc';
+import { concaveUpwardFlag, driftFlag, fitFlags, h0Flag, intakeScreenInFilterPackFlag, kFlags, oscillationFlag, shapeFactorFlags } from './qc';
 import { reduceRecord, type RawRecord, type ReducedRecord, type ReductionSettings } from './reduction';
 
 export type KResult = HvorslevResult | BouwerRiceResult;
@@ -67,6 +67,8 @@ export function analyzeReduced(reduced: ReducedRecord, settings: FitSettings): F
     if (!settings.allowOscillation) throw new OscillatingResponseError(oscillation);
     flags.push(oscillation);
   }
+  const drift = driftFlag(reduced);
+  if (drift) flags.push(drift);
   const fit = fitLine(reduced, { method: settings.method, line: settings.line, window: settings.window });
   const k = settings.method === 'hvorslev' ? hvorslevK(settings.geometry, fit.t0Seconds) : bouwerRiceK(settings.geometry, fit.t0Seconds);
 

@@ -57,7 +57,16 @@ export interface LineFit {
   /** ln(H/H0) at t = 0: 0 for the anchored line. */
   intercept: number;
   t0Seconds: number;
+  /**
+   * The share of ln(H/H0) the line explains, 0–1, as is usual for each line: about the origin for
+   * the anchored line (1 − SS_res/Σy²), about the mean for the free line. What is shown.
+   */
   rSquared: number;
+  /**
+   * 1 − SS_res/SS_tot about the mean of ln(H/H0), for the QC (the same as rSquared for the free
+   * line). For a line forced through the origin it can be negative: never shown as it is.
+   */
+  rSquaredAboutMean: number;
   count: number;
   window: ResolvedWindow;
   /** e^intercept × H0: the line's H0, the effective H0 of a free fit. */
@@ -212,6 +221,7 @@ interface LineSums {
   slope: number;
   intercept: number;
   rSquared: number;
+  rSquaredAboutMean: number;
 }
 
 function anchoredLine(t: Float64Array, y: Float64Array): LineSums {
@@ -229,14 +239,22 @@ function anchoredLine(t: Float64Array, y: Float64Array): LineSums {
   const meanY = sy / n;
   let ssRes = 0;
   let ssTot = 0;
+  let syy = 0;
   for (let i = 0; i < n; i++) {
     const r = y[i] - slope * t[i];
     ssRes += r * r;
     const d = y[i] - meanY;
     ssTot += d * d;
+    syy += y[i] * y[i];
   }
-  // r² about the mean of ln(H/H0), as for the free line: the uncentred form would flatter a line through the origin
-  return { slope, intercept: 0, rSquared: ssTot > 0 ? 1 - ssRes / ssTot : ssRes === 0 ? 1 : 0 };
+  // Regression through the origin: r² about the origin, 1 − SS_res/Σy², in [0, 1] (Eisenhauer 2003, memory).
+  // The centred figure is kept for the QC; for a line forced through the origin it can fall below 0.
+  return {
+    slope,
+    intercept: 0,
+    rSquared: syy > 0 ? Math.min(1, Math.max(0, 1 - ssRes / syy)) : 1,
+    rSquaredAboutMean: ssTot > 0 ? 1 - ssRes / ssTot : ssRes === 0 ? 1 : 0,
+  };
 }
 
 function freeLine(t: Float64Array, y: Float64Array): LineSums {
@@ -261,7 +279,8 @@ function freeLine(t: Float64Array, y: Float64Array): LineSums {
   }
   if (!(sxx > 0)) throw new EngineInputError('fit.window', `holds ${n} reading(s) at one time; the free line needs at least 2 distinct times`);
   const slope = sxy / sxx;
-  return { slope, intercept: meanY - slope * meanT, rSquared: syy > 0 ? (sxy * sxy) / (sxx * syy) : 1 };
+  const rSquared = syy > 0 ? (sxy * sxy) / (sxx * syy) : 1;
+  return { slope, intercept: meanY - slope * meanT, rSquared, rSquaredAboutMean: rSquared };
 }
 
 /** Fits the straight line ln(H/H0) = a − t/T0 over the window. */
@@ -286,6 +305,7 @@ export function fitLine(reduced: ReducedRecord, options: FitOptions): LineFit {
     intercept: sums.intercept,
     t0Seconds,
     rSquared: sums.rSquared,
+    rSquaredAboutMean: sums.rSquaredAboutMean,
     count,
     window: {
       source: chosen.source,

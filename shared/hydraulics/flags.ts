@@ -2,6 +2,7 @@ export type QcSeverity = 'info' | 'warning' | 'error';
 
 export type QcCode =
   | 'oscillation'
+  | 'drift-after-recovery'
   | 'concave-upward'
   | 'too-few-readings'
   | 'low-r-squared'

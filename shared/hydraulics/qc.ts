@@ -41,11 +41,23 @@ export function normalizedHeadNoise(reduced: ReducedRecord): number {
   return (1.4826 * median) / Math.sqrt(6);
 }
 
-/**
- * Oscillation: H/H0 changes sign, or rises again above its running minimum, by more than the
- * noise could explain (10 σ, at least 0.03 and at most 0.2 of H0).
- */
-export function oscillationFlag(reduced: ReducedRecord): QcFlag | null {
+interface ResponseShape {
+  tolerance: number;
+  noise: number;
+  lowest: number;
+  lowestAt: number;
+  /** Largest rise of H/H0 above its running minimum, and where. */
+  largestRise: number;
+  riseAt: number;
+  /** H/H0 fell below −tolerance (crossed static). */
+  crossed: boolean;
+  /** After crossing, the largest rise back above the running minimum, and where. */
+  turnBack: number;
+  turnBackAt: number;
+}
+
+/** One pass over the response from the test start: its lowest point, its rises, whether it crosses static and turns back. */
+function responseShape(reduced: ReducedRecord): ResponseShape {
   const { normalizedHead: h, elapsedSeconds: e, testStartIndex: start } = reduced;
   const noise = normalizedHeadNoise(reduced);
   const tolerance = Math.min(0.2, Math.max(0.03, 10 * noise));
@@ -53,6 +65,9 @@ export function oscillationFlag(reduced: ReducedRecord): QcFlag | null {
   let lowestIndex = start;
   let largestRise = 0;
   let riseIndex = start;
+  let crossed = false;
+  let turnBack = 0;
+  let turnBackIndex = start;
   for (let i = start; i < h.length; i++) {
     const v = h[i];
     if (v < runningMin) {
@@ -62,30 +77,110 @@ export function oscillationFlag(reduced: ReducedRecord): QcFlag | null {
       largestRise = v - runningMin;
       riseIndex = i;
     }
+    if (v < -tolerance) crossed = true;
+    else if (crossed && v - runningMin > turnBack) {
+      turnBack = v - runningMin;
+      turnBackIndex = i;
+    }
   }
-  const lowest = runningMin;
-  const lowestAt = e[lowestIndex];
-  const riseAt = e[riseIndex];
-  const changesSign = lowest < -tolerance;
-  const risesAgain = largestRise > tolerance;
-  if (!changesSign && !risesAgain) return null;
-  const what: string[] = [];
-  if (changesSign) what.push(`falls to H/H0 = ${fmt(lowest)} at t = ${fmt(lowestAt)} s (changes sign)`);
-  if (risesAgain) what.push(`rises again by ${fmt(largestRise)} of H0 by t = ${fmt(riseAt)} s`);
+  return {
+    tolerance,
+    noise,
+    lowest: runningMin,
+    lowestAt: e[lowestIndex],
+    largestRise,
+    riseAt: e[riseIndex],
+    crossed,
+    turnBack,
+    turnBackAt: e[turnBackIndex],
+  };
+}
+
+/**
+ * Oscillation: H/H0 crosses static (falls below −tolerance) and turns back toward it by more than
+ * the noise could explain (10 σ, at least 0.03 and at most 0.2 of H0). A level that keeps moving
+ * without turning back is a drift (`driftFlag`), not an oscillation.
+ */
+export function oscillationFlag(reduced: ReducedRecord): QcFlag | null {
+  const shape = responseShape(reduced);
+  if (!shape.crossed || !(shape.turnBack > shape.tolerance)) return null;
   return {
     code: 'oscillation',
     severity: 'error',
-    message: `The response oscillates: it ${what.join(' and ')}. Hvorslev and Bouwer-Rice assume an overdamped response, so their K does not apply.`,
+    message:
+      `The response oscillates: it falls to H/H0 = ${fmt(shape.lowest)} at t = ${fmt(shape.lowestAt)} s (changes sign) ` +
+      `and turns back by ${fmt(shape.turnBack)} of H0 by t = ${fmt(shape.turnBackAt)} s. Hvorslev and Bouwer-Rice assume an overdamped response, so their K does not apply.`,
     values: {
-      lowestNormalizedHead: lowest,
-      lowestAtSeconds: lowestAt,
-      largestRise,
-      riseAtSeconds: riseAt,
-      toleranceNormalizedHead: tolerance,
-      noiseNormalizedHead: noise,
+      lowestNormalizedHead: shape.lowest,
+      lowestAtSeconds: shape.lowestAt,
+      turnBack: shape.turnBack,
+      turnBackAtSeconds: shape.turnBackAt,
+      toleranceNormalizedHead: shape.tolerance,
+      noiseNormalizedHead: shape.noise,
     },
     suggestion: 'Analyse the record with a method for underdamped responses; fit it here only if the rise is known to be an artefact.',
     reference: REFERENCES.oscillation,
+  };
+}
+
+/** Least-squares slope of H/H0 against time over the later half of the test (1/s). */
+function lateTrendPerSecond(reduced: ReducedRecord): number {
+  const { normalizedHead: h, elapsedSeconds: e, testStartIndex: start } = reduced;
+  const half = e[h.length - 1] / 2;
+  let n = 0;
+  let st = 0;
+  let sy = 0;
+  for (let i = start; i < h.length; i++) {
+    if (e[i] < half) continue;
+    n++;
+    st += e[i];
+    sy += h[i];
+  }
+  if (n < 2) return 0;
+  const mt = st / n;
+  const my = sy / n;
+  let sxx = 0;
+  let sxy = 0;
+  for (let i = start; i < h.length; i++) {
+    if (e[i] < half) continue;
+    sxx += (e[i] - mt) * (e[i] - mt);
+    sxy += (e[i] - mt) * (h[i] - my);
+  }
+  return sxx > 0 ? sxy / sxx : 0;
+}
+
+/**
+ * Drift after recovery: the level keeps moving once the response has recovered — it rises again
+ * away from static without crossing it, or crosses static and goes on without turning back — by
+ * more than the noise could explain (the oscillation tolerance). An uncompensated absolute
+ * (non-vented) sensor or a barometric trend does this; it is not an oscillation.
+ */
+export function driftFlag(reduced: ReducedRecord): QcFlag | null {
+  const shape = responseShape(reduced);
+  if (shape.crossed && shape.turnBack > shape.tolerance) return null; // an oscillation
+  const crossedOn = shape.crossed;
+  const risesAgain = !shape.crossed && shape.largestRise > shape.tolerance;
+  if (!crossedOn && !risesAgain) return null;
+  const trend = lateTrendPerSecond(reduced);
+  const what = crossedOn
+    ? `it passes static and goes on to H/H0 = ${fmt(shape.lowest)} by t = ${fmt(shape.lowestAt)} s without turning back`
+    : `it rises again by ${fmt(shape.largestRise)} of H0 by t = ${fmt(shape.riseAt)} s without crossing static`;
+  return {
+    code: 'drift-after-recovery',
+    severity: 'warning',
+    message: `The level keeps moving after recovery: compensate with a barometric record or fit the early part (${what}; H/H0 changes by ${fmt(trend * 3600)} per hour over the later half).`,
+    values: {
+      lowestNormalizedHead: shape.lowest,
+      lowestAtSeconds: shape.lowestAt,
+      largestRise: shape.largestRise,
+      riseAtSeconds: shape.riseAt,
+      crossesStatic: crossedOn,
+      lateTrendPerSecond: trend,
+      toleranceNormalizedHead: shape.tolerance,
+    },
+    suggestion:
+      'Compensate the record with a barometric record (absolute sensor) or correct the trend, or fit a window in the early part of the recovery, before the drift shows.',
+    reference: REFERENCES.drift,
   };
 }
 
@@ -174,12 +269,17 @@ export function fitFlags(fit: LineFit, method: FitMethod): QcFlag[] {
       suggestion: 'Widen the window.',
     });
   }
-  if (fit.rSquared < MIN_R_SQUARED) {
+  // Read about the mean of ln(H/H0) for either line: r² about the origin would flatter an anchored line.
+  if (fit.rSquaredAboutMean < MIN_R_SQUARED) {
+    const aboutMean = Math.max(0, fit.rSquaredAboutMean);
     flags.push({
       code: 'low-r-squared',
       severity: 'warning',
-      message: `r² = ${fit.rSquared.toFixed(4)} is below ${MIN_R_SQUARED}: the readings in the window are not on a straight line.`,
-      values: { rSquared: fit.rSquared, minimum: MIN_R_SQUARED },
+      message:
+        fit.line === 'anchored'
+          ? `About the mean of ln(H/H0) the anchored line explains ${aboutMean.toFixed(4)} of its spread, below ${MIN_R_SQUARED} (r² about the origin ${fit.rSquared.toFixed(4)}): the readings in the window are not on a straight line through H/H0 = 1 at the start.`
+          : `r² = ${fit.rSquared.toFixed(4)} is below ${MIN_R_SQUARED}: the readings in the window are not on a straight line.`,
+      values: { rSquared: fit.rSquared, rSquaredAboutMean: aboutMean, minimum: MIN_R_SQUARED },
       suggestion: 'Check the static level and the window; a curved record may need a free line over a later segment.',
       reference: REFERENCES.rSquared,
     });

@@ -10,6 +10,7 @@ export const REFERENCES = {
   freeFit: 'Bouwer (1989, memory): least squares of ln(H/H0) = a − t/T0; e^a × H0 is the effective H0',
   recommendedRanges: 'Butler (1998, memory): H/H0 0.15–0.25 for Hvorslev, 0.20–0.30 for Bouwer-Rice',
   oscillation: 'Butler & Garnett (2000): an oscillating response is outside the overdamped models',
+  drift: 'Butler (1998, memory): a trend in the water level not caused by the test must be removed before the analysis; threshold Kfield’s choice',
   doubleStraightLine: 'Bouwer (1989); Butler (2014): concave-upward early data, fit the later segment',
   expectedH0: 'Butler, McElwee & Liu (1996, memory): measured H0 against slug volume / (π rc²)',
   repeatTests: 'Butler, McElwee & Liu (1996): repeat tests should give coinciding normalized curves',

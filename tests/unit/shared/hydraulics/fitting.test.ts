@@ -68,4 +68,34 @@ describe('fitting the straight line', () => {
     expect(fit.effectiveH0M).toBe(-1);
     expect(fit.reference).toContain('through the origin');
   });
+
+  it('reports the anchored line’s r² about the origin (1 − SS_res/Σy²), never a negative figure', () => {
+    // a record whose later segment extrapolates to 0.3 H0: over the narrow window 0.25–0.15 the line forced through (0, 1) misses it
+    // (regression through the origin: Eisenhauer 2003, memory)
+    const time = Float64Array.from({ length: 400 }, (_, i) => i);
+    const head = Float64Array.from(time, (t) => (t === 0 ? 1 : 0.3 * Math.exp(-t / 300)));
+    const reduced = reduceRecord({ timeSeconds: time, value: head }, { reference: 'vented', staticLevelM: 0 });
+    const fit = fitLine(reduced, { method: 'hvorslev', window: { kind: 'head', upper: 0.25, lower: 0.15 } });
+    let stt = 0;
+    let sty = 0;
+    let syy = 0;
+    const points: [number, number][] = [];
+    for (let i = 0; i < 400; i++) {
+      const h = reduced.normalizedHead[i];
+      if (!(h > 0.15 && h <= 0.25)) continue;
+      const t = reduced.elapsedSeconds[i];
+      const y = Math.log(h);
+      points.push([t, y]);
+      stt += t * t;
+      sty += t * y;
+      syy += y * y;
+    }
+    const slope = sty / stt;
+    const ssRes = points.reduce((sum, [t, y]) => sum + (y - slope * t) ** 2, 0);
+    expect(fit.rSquared).toBeCloseTo(1 - ssRes / syy, 12);
+    expect(fit.rSquared).toBeGreaterThanOrEqual(0);
+    expect(fit.rSquared).toBeLessThanOrEqual(1);
+    // about the mean the same line explains less than nothing: kept for the QC only, never shown
+    expect(fit.rSquaredAboutMean).toBeLessThan(0);
+  });
 });

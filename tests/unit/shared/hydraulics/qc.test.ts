@@ -39,9 +39,32 @@ describe('QC flags', () => {
     expect(flag?.suggestion).toContain('underdamped');
   });
 
-  it('flags a record that rises again without changing sign', () => {
-    const a = () => analyzeRecord(input((t) => (t < 100 ? Math.exp(-t / 20) : Math.exp(-5) + 0.2 * (1 - Math.exp(-(t - 100) / 10)))));
-    expect(a).toThrow('rises again by 0.2 of H0');
+  it('diagnoses a level that rises again after recovery without crossing static as a drift, not an oscillation', () => {
+    const a = analyzeRecord(input((t) => (t < 100 ? Math.exp(-t / 20) : Math.exp(-5) + 0.2 * (1 - Math.exp(-(t - 100) / 10)))));
+    expect(codes(a)).not.toContain('oscillation');
+    const drift = a.flags.find((f) => f.code === 'drift-after-recovery');
+    expect(drift?.severity).toBe('warning');
+    expect(drift?.message).toMatch(/^The level keeps moving after recovery: compensate with a barometric record or fit the early part/);
+  });
+
+  it('diagnoses an uncompensated barometric drift past static as a drift, not an oscillation', () => {
+    // recovery with T0 = 20 s, then the level keeps falling 2 % of H0 a minute (an absolute sensor without its barometric record)
+    const a = analyzeRecord(input((t) => Math.exp(-t / 20) - (0.02 * t) / 60, { n: 1200 }));
+    expect(codes(a)).not.toContain('oscillation');
+    const drift = a.flags.find((f) => f.code === 'drift-after-recovery');
+    expect(drift?.values.lateTrendPerSecond).toBeCloseTo(-0.02 / 60, 4);
+    expect(drift?.suggestion).toMatch(/barometric/);
+  });
+
+  it('reports oscillation only for a response that crosses static and turns back', () => {
+    // crosses static once and comes back toward it: an underdamped response
+    const overshoot = (t: number) => Math.exp(-t / 10) * Math.cos((2 * Math.PI * t) / 80);
+    expect(() => analyzeRecord(input(overshoot))).toThrow(OscillatingResponseError);
+    expect(codes(analyzeRecord({ ...input(overshoot), allowOscillation: true }))).not.toContain('drift-after-recovery');
+  });
+
+  it('does not flag a drift on a record that settles at static', () => {
+    expect(codes(analyzeRecord(input((t) => Math.exp(-t / 30))))).not.toContain('drift-after-recovery');
   });
 
   it('does not mistake sensor noise on an overdamped record for oscillation', () => {
@@ -83,7 +106,10 @@ describe('QC flags', () => {
     const low = analyzeRecord({ ...input(curved, { n: 600 }), window: { kind: 'time', fromSeconds: 10, toSeconds: 60 } });
     const flag = low.flags.find((f) => f.code === 'low-r-squared');
     expect(flag?.severity).toBe('warning');
-    expect(flag?.values.rSquared).toBeCloseTo(0.9632, 4);
+    // the QC reads r² about the mean of ln(H/H0) (0.9632); the figure shown is the anchored line's r² about the origin
+    expect(flag?.values.rSquaredAboutMean).toBeCloseTo(0.9632, 4);
+    expect(flag?.values.rSquared).toBe(low.fit.rSquared);
+    expect(flag?.message).not.toMatch(/-\d/);
     const high = analyzeRecord({ ...input(curved, { n: 600 }), window: { kind: 'time', fromSeconds: 0, toSeconds: 30 } });
     expect(high.fit.rSquared).toBeGreaterThan(0.98);
     expect(codes(high)).not.toContain('low-r-squared');
