@@ -141,6 +141,9 @@ describe('fit workspace and check in the browser', () => {
     const stored = (await analystApi.get(`/api/fits/${fitId}`)).body;
     expect(stored.windowInput.kind).toBe('time');
     expect(Math.abs(stored.result.kMetersPerSecond / draggedK - 1)).toBeLessThan(0.01);
+    // The dragged window lies outside the recommended range: a flag that changes K, answered with a reason.
+    await expect.poll(() => page.getByRole('button', { name: 'Submit for check' }).isDisabled()).toBe(true);
+    await page.locator('[data-flag="window-outside-recommended"]').getByLabel(/say why/i).fill('The straight part of this record runs from H/H0 0.7 to 0.12.');
     await page.getByRole('button', { name: 'Submit for check' }).click();
     await expect.poll(() => page.getByRole('heading', { level: 1 }).textContent()).toContain('Awaiting check');
     await e2e.shot(page, 'fits-awaiting-check-analyst-1280');

@@ -7,6 +7,7 @@ import { FIT_STATUS_LABELS, type FitEvent } from '@shared/schemas/fits';
 import { formatDateTime } from '@/lib/format';
 import { auditQueryOptions } from '../api';
 import { formatK, formatQuantity } from '../format';
+import { FLAG_NAMES } from './qc-flags';
 
 const KIND_LABELS: Record<FitEvent['kind'], string> = {
   created: 'Created',
@@ -97,13 +98,13 @@ function EventDetails({ event, siteId }: { event: FitEvent; siteId: string }) {
     for (const [code, reason] of Object.entries(d.reasons as Record<string, unknown>)) {
       items.push(
         <li key={`reason-${code}`} className="break-words">
-          <span className="text-slate-500">Reason for keeping the fit despite “{code}”: </span>
+          <span className="text-slate-500">Reason for keeping the fit despite the {FLAG_NAMES[code] ?? code} flag: </span>
           {String(reason)}
         </li>,
       );
     }
   }
-  if (typeof d.resolved === 'string') items.push(<li key="resolved">Applied the suggested action for the “{d.resolved}” flag</li>);
+  if (typeof d.resolved === 'string') items.push(<li key="resolved">Applied the suggested action for the {FLAG_NAMES[d.resolved] ?? d.resolved} flag</li>);
   if (event.kind === 'created') {
     items.push(
       <li key="created">

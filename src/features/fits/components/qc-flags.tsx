@@ -52,9 +52,17 @@ function describeValues(values: QcFlag['values']): string[] {
 /** What to do about a flag whose engine message names no action. */
 const DEFAULT_SUGGESTIONS: Partial<Record<string, string>> = {
   'window-outside-recommended':
-    'Move the window into the recommended range, or say in the note why this window suits the record better.',
+    'Move the window into the recommended range, or say why this window suits the record better.',
   'shape-factor-validity': 'Nothing to change: K comes from the full form; the simplified form is shown for comparison.',
   'too-few-readings': 'Widen the window.',
+};
+
+/** Flags by name, where a code is shown in words (the audit trail). */
+export const FLAG_NAMES: Record<string, string> = {
+  'concave-upward': 'double straight line',
+  'window-outside-recommended': 'window outside the recommended range',
+  'h0-mismatch': 'H0 mismatch',
+  'intake-screen-in-filter-pack': 'screen radius in a filter-packed well',
 };
 
 /** How a flag stands against the fit, and what may be done about it here. */
@@ -156,7 +164,7 @@ function FlagAnswer({ flag, action, answering, error }: { flag: QcFlag; action: 
     <div className="mt-2 space-y-2 pl-5">
       {action ? (
         answering.onApply ? (
-          <Button size="sm" variant="secondary" pending={answering.applyingCode === flag.code} disabled={answering.applyingCode !== null} onClick={() => answering.onApply?.(flag.code, action)}>
+          <Button size="sm" variant="secondary" className="h-auto max-w-full py-1 text-left whitespace-normal" pending={answering.applyingCode === flag.code} disabled={answering.applyingCode !== null} onClick={() => answering.onApply?.(flag.code, action)}>
             {action.label}
           </Button>
         ) : (
