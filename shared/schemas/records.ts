@@ -327,5 +327,9 @@ export const previewSchema = z.object({
     .nullable(),
   /** Why no test start and static level could be suggested. */
   suggestionProblem: z.string().nullable(),
+  /** The engine's code for it: TEST_START_NOT_FOUND (enter the start), NO_PRE_TEST_READINGS (enter the static level). */
+  suggestionCode: z.string().nullable().optional(),
+  /** Where the test may start (s after the first reading), when it could not be found: for the user to choose from. */
+  testStartCandidates: z.array(z.number()).optional(),
 });
 export type Preview = z.infer<typeof previewSchema>;

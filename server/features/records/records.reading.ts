@@ -201,7 +201,7 @@ function reduceWithFields(t: Float64Array, v: Float64Array, settings: ReductionS
     if (e instanceof EngineInputError) {
       const map = kind === 'logger' ? LOGGER_FIELDS : TAPE_FIELDS;
       const field = map[e.field];
-      if (field) throw new EngineInputError(field, e.problem);
+      if (field) throw new EngineInputError(field, e.problem, { code: e.code, details: e.details ? { ...e.details } : undefined });
     }
     throw e;
   }

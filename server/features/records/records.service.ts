@@ -60,7 +60,7 @@ export function toBadRequest(e: EngineInputError): AppError {
   const label = FIELD_LABELS[e.field] ?? e.field;
   const fields: Record<string, string> = { [e.field]: e.problem };
   if (e instanceof RecordFileError) for (const issue of e.issues) fields[`${e.field}.lines.${issue.line}`] = issue.message;
-  return badRequest(`${label}: ${e.problem}`, fields, e instanceof RecordFileError ? 'BAD_RECORD_FILE' : 'INVALID_INPUT');
+  return badRequest(`${label}: ${e.problem}`, fields, e instanceof RecordFileError ? 'BAD_RECORD_FILE' : (e.code ?? 'INVALID_INPUT'));
 }
 
 function withEngineErrors<T>(run: () => T): T {
@@ -426,6 +426,8 @@ export function createRecordsService({ ds }: { ds: DataSource }) {
 
     let suggestion: Preview['suggestion'] = null;
     let suggestionProblem: string | null = null;
+    let suggestionCode: string | null = null;
+    let testStartCandidates: number[] = [];
     const reference = choice.reference ?? main.preview.reference;
     const valueUnit = choice.valueUnit ?? main.preview.valueUnit;
     if (!main.preview.mapping) suggestionProblem = 'Choose the time and value columns first.';
@@ -480,10 +482,13 @@ export function createRecordsService({ ds }: { ds: DataSource }) {
         } catch (e) {
           if (!(e instanceof EngineInputError)) throw e;
           suggestionProblem = `${FIELD_LABELS[e.field] ?? e.field}: ${e.problem}`;
+          suggestionCode = e.code ?? null;
+          const candidates = e.details?.candidatesAfterFirstReadingSeconds;
+          if (Array.isArray(candidates)) testStartCandidates = candidates.filter((x): x is number => typeof x === 'number');
         }
       }
     }
-    return { file: main.preview, barometric: baro?.preview ?? null, suggestion, suggestionProblem };
+    return { file: main.preview, barometric: baro?.preview ?? null, suggestion, suggestionProblem, suggestionCode, testStartCandidates };
   }
 
   async function series(recordId: string, points: number, scale: 'log' | 'linear' = 'log'): Promise<Series> {
