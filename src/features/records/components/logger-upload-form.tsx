@@ -12,7 +12,7 @@ import {
   type RecordTestType,
 } from '@shared/schemas/records';
 import { LENGTH_UNITS, lengthFromSi, type LengthUnit } from '@shared/units/length';
-import { PRESSURE_UNITS } from '@shared/units/pressure';
+import { isPressureUnit, PRESSURE_UNITS, pressureFromSi, STANDARD_GRAVITY } from '@shared/units/pressure';
 import { VOLUME_UNITS, type VolumeUnit } from '@shared/units/volume';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
@@ -105,7 +105,15 @@ function Preamble({ lines, first }: { lines: string[]; first: number }) {
   );
 }
 
-const TEST_START_HELP = 'Seconds after the first reading. Suggested from the data: the largest step between readings.';
+const TEST_START_HELP =
+  'Seconds after the first reading, or as written in the field: a time of day (14:32:05) for a record with dates and times, an elapsed time (1:30, 90 s) otherwise. Suggested from the data: the largest step between readings.';
+/** A level in metres of water in the chosen unit: a length, or the water's pressure ρ g h. */
+function levelFromSi(m: number, unit: string, densityKgM3: number): number {
+  return isPressureUnit(unit) ? pressureFromSi(m * densityKgM3 * STANDARD_GRAVITY, unit, densityKgM3) : lengthFromSi(m, unit as LengthUnit);
+}
+
+/** A bare number is seconds after the first reading; anything else is sent as typed for the server to read. */
+const isPlainNumber = (text: string) => /^\s*[+-]?(\d+([.,]\d*)?|[.,]\d+)\s*$/.test(text);
 
 /**
  * Logger upload: choose the file (and a barometric file for an absolute sensor), confirm or change
@@ -137,8 +145,11 @@ export function LoggerUploadForm({
   const [testType, setTestType] = useState<RecordTestType>('slug-out');
   const [testStart, setTestStart] = useState('');
   const [staticLevel, setStaticLevel] = useState('');
-  const [staticUnit, setStaticUnit] = useState<LengthUnit>(defaultUnit);
+  const [chosenStaticUnit, setStaticUnit] = useState<string>(defaultUnit);
   const [density, setDensity] = useState('1000');
+  // A depth below the measuring point is a length: a pressure unit chosen for another reference falls back.
+  const staticUnit = reference === 'depth' && isPressureUnit(chosenStaticUnit) ? defaultUnit : chosenStaticUnit;
+  const densityKgM3 = numberOrUndefined(density) ?? 1000;
   const [slugVolume, setSlugVolume] = useState('');
   const [slugUnit, setSlugUnit] = useState<VolumeUnit>('L');
   const [testDate, setTestDate] = useState('');
@@ -170,7 +181,7 @@ export function LoggerUploadForm({
       const s = p.suggestion;
       if (s) {
         if (!edited.testStart || fresh) setTestStart(String(Number(s.testStartSeconds.toPrecision(10))));
-        if ((!edited.staticLevel || fresh) && s.staticLevelM !== null) setStaticLevel(lengthFromSi(s.staticLevelM, staticUnit).toFixed(3));
+        if ((!edited.staticLevel || fresh) && s.staticLevelM !== null) setStaticLevel(levelFromSi(s.staticLevelM, staticUnit, densityKgM3).toFixed(3));
         if ((!edited.testDate || fresh) && s.testDate) setTestDate(s.testDate);
         if (s.direction === 'falling-head' && testType !== 'slug-in' && !edited.testStart) setTestType('slug-in');
       }
@@ -256,7 +267,11 @@ export function LoggerUploadForm({
       valueUnit: main.valueUnit,
       waterDensityKgM3: numberOrUndefined(density) ?? 1000,
       // Suggested values left as they were are not sent: the server finds the same and says so ("detected", "pre-test").
-      ...(start !== undefined && edited.testStart ? { testStartSeconds: start } : {}),
+      ...(edited.testStart && testStart.trim() !== ''
+        ? isPlainNumber(testStart) && start !== undefined
+          ? { testStartSeconds: start }
+          : { testStartText: testStart.trim() }
+        : {}),
       ...(level !== undefined && edited.staticLevel ? { staticLevel: { value: level, unit: staticUnit } } : {}),
       ...(slug !== undefined ? { slugVolume: { value: slug, unit: slugUnit } } : {}),
       ...(testDate ? { testDate } : {}),
@@ -411,7 +426,7 @@ export function LoggerUploadForm({
               <p className="text-sm text-slate-700" data-testid="suggestion">
                 From the data: the test starts {formatDuration(suggestion.testStartSeconds)} after the first reading
                 {suggestion.startedAt ? ` (${new Date(suggestion.startedAt).toISOString().replace('T', ' ').slice(0, 19)} UTC)` : ''}, H0 ={' '}
-                {lengthFromSi(Math.abs(suggestion.h0M), staticUnit).toFixed(3)} {staticUnit}, {suggestion.direction}
+                {levelFromSi(Math.abs(suggestion.h0M), staticUnit, densityKgM3).toFixed(3)} {staticUnit}, {suggestion.direction}
                 {suggestion.staticSource === 'pre-test' ? '; static level from the readings before the start' : ''}.
               </p>
             ) : preview.suggestionProblem ? (
@@ -427,8 +442,7 @@ export function LoggerUploadForm({
               </SelectField>
               <TextField
                 id={`${id}-start`}
-                label="Test start (s after the first reading)"
-                inputMode="decimal"
+                label="Test start (s after the first reading, or a time)"
                 value={testStart}
                 hint={TEST_START_HELP}
                 onChange={(e) => {
@@ -448,12 +462,19 @@ export function LoggerUploadForm({
                     setEdited((x) => ({ ...x, staticLevel: true }));
                   }}
                 />
-                <SelectField id={`${id}-static-unit`} label="Unit" value={staticUnit} onChange={(e) => setStaticUnit(e.target.value as LengthUnit)}>
+                <SelectField id={`${id}-static-unit`} label="Unit" value={staticUnit} onChange={(e) => setStaticUnit(e.target.value)}>
                   {LENGTH_UNITS.map((u) => (
                     <option key={u.id} value={u.id}>
                       {u.label}
                     </option>
                   ))}
+                  {reference !== 'depth'
+                    ? PRESSURE_UNITS.map((u) => (
+                        <option key={u.id} value={u.id}>
+                          {u.label} (water pressure above the sensor, with the density)
+                        </option>
+                      ))
+                    : null}
                 </SelectField>
               </div>
               <TextField

@@ -65,7 +65,9 @@ export function tapeBody(v: TapeFormValues): { body: TapeBodyInput; rowOf: numbe
   });
   const staticLevel = numberOrUndefined(v.staticLevel);
   const slug = numberOrUndefined(v.slugVolume);
-  const testStart = v.timeFormat === 'mm:ss' ? v.testStart.trim() || undefined : numberOrUndefined(v.testStart);
+  // A bare number is in the readings' time format; text such as 1:30 or 90 s is sent as typed for the server to read.
+  const startText = v.testStart.trim();
+  const testStart = startText === '' ? undefined : v.timeFormat !== 'mm:ss' && /^[+-]?(\d+([.,]\d*)?|[.,]\d+)$/.test(startText) ? numberOrUndefined(startText) : startText;
   return {
     rowOf,
     body: {
@@ -225,8 +227,8 @@ export function TapeReadingsForm({
         />
         <TextField
           label={`Test start (${format.label.toLowerCase()})`}
-          inputMode={timeFormat === 'mm:ss' ? 'text' : 'decimal'}
-          hint="Leave empty to start at the largest step between readings."
+          inputMode="text"
+          hint="Or as written at the well: 1:30, 90 s, 1.5 min. Leave empty to start at the largest step between readings."
           error={errors.testStart?.message}
           {...register('testStart')}
         />
