@@ -29,6 +29,7 @@ export function FitResults({
   timeUnit,
   anchored,
   heading,
+  sources,
 }: {
   view: ResultView;
   kUnit: KUnit;
@@ -37,6 +38,8 @@ export function FitResults({
   timeUnit: PlotTimeUnit;
   anchored: boolean;
   heading: ReactNode;
+  /** Whether the record's static level and test start were entered or detected. */
+  sources?: { staticSource: 'entered' | 'pre-test'; testStartSource: 'entered' | 'detected'; preTestCount: number };
 }) {
   const per = secondsPer(timeUnit);
   const t = (seconds: number) => `${formatQuantity(seconds / per)} ${timeUnit}`;
@@ -67,7 +70,10 @@ export function FitResults({
         <Row term="Basic time lag T0">
           <span data-testid="t0-value">{formatDuration(view.t0Seconds)}</span>
         </Row>
-        <Row term="r²">{view.rSquared.toFixed(4)}</Row>
+        <Row term="r²">
+          <span className="block">{Math.max(0, view.rSquared).toFixed(4)}</span>
+          <span className="block text-xs font-normal text-slate-600">{anchored ? 'about the origin (line through H/H0 = 1)' : 'about the mean'}</span>
+        </Row>
         <Row term="Readings used">
           <span data-testid="readings-used">{view.count}</span>
         </Row>
@@ -89,6 +95,16 @@ export function FitResults({
         <Row term="Line reaches 1/e">{t(view.lineCrossingSeconds)}</Row>
         <Row term="Record reaches 1/e">{view.recordCrossingSeconds === null ? 'never' : t(view.recordCrossingSeconds)}</Row>
         <Row term="Measured H0">{formatLengthIn(Math.abs(view.h0M), units.length)}</Row>
+        {sources ? (
+          <Row term="Test start and static level">
+            <span className="block" data-testid="start-source">
+              test start {sources.testStartSource === 'entered' ? 'entered' : 'detected from the record'}
+            </span>
+            <span className="block" data-testid="static-source">
+              static level {sources.staticSource === 'entered' ? 'entered' : `detected (from ${sources.preTestCount} pre-test readings)`}
+            </span>
+          </Row>
+        ) : null}
         <Row term="Expected H0 (slug volume)">
           {view.expectedH0M === null ? (
             <span className="font-normal text-slate-500">no slug volume recorded</span>

@@ -442,6 +442,7 @@ export function FitWorkspace({
             timeUnit={timeUnit}
             anchored={inputs.line === 'anchored'}
             heading={resultHeading}
+            sources={{ staticSource: reduced.staticSource, testStartSource: reduced.testStartSource, preTestCount: reduced.preTestCount }}
           />
         ) : (
           <Alert tone="warning" title="No result yet">

@@ -424,13 +424,34 @@ export function LoggerUploadForm({
             </h3>
             {suggestion ? (
               <p className="text-sm text-slate-700" data-testid="suggestion">
-                From the data: the test starts {formatDuration(suggestion.testStartSeconds)} after the first reading
+                Detected from the data, not entered: the test starts {formatDuration(suggestion.testStartSeconds)} after the first reading
                 {suggestion.startedAt ? ` (${new Date(suggestion.startedAt).toISOString().replace('T', ' ').slice(0, 19)} UTC)` : ''}, H0 ={' '}
                 {levelFromSi(Math.abs(suggestion.h0M), staticUnit, densityKgM3).toFixed(3)} {staticUnit}, {suggestion.direction}
-                {suggestion.staticSource === 'pre-test' ? '; static level from the readings before the start' : ''}.
+                {suggestion.staticSource === 'pre-test' ? '; static level detected from the readings before the start' : ''}. Enter either to
+                use your own.
               </p>
             ) : preview.suggestionProblem ? (
-              <Alert tone="warning">{preview.suggestionProblem}</Alert>
+              <Alert tone="warning">
+                <p>{preview.suggestionProblem}</p>
+                {preview.testStartCandidates?.length ? (
+                  <p className="mt-2 flex flex-wrap items-center gap-2" data-testid="start-candidates">
+                    <span>Where the level changes most:</span>
+                    {preview.testStartCandidates.map((c) => (
+                      <Button
+                        key={c}
+                        variant="secondary"
+                        size="sm"
+                        onClick={() => {
+                          setTestStart(String(Number(c.toPrecision(6))));
+                          setEdited((x) => ({ ...x, testStart: true }));
+                        }}
+                      >
+                        Start at {formatDuration(c)}
+                      </Button>
+                    ))}
+                  </p>
+                ) : null}
+              </Alert>
             ) : null}
             <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-3">
               <SelectField id={`${id}-type`} label="Test type" value={testType} onChange={(e) => setTestType(e.target.value as RecordTestType)}>
