@@ -87,7 +87,7 @@ export function analyzeReduced(reduced: ReducedRecord, settings: FitSettings): F
 }
 
 /** The screen radius taken as the intake where the borehole is wider: K with each radius. */
-function intakeFlag(method: FitMethod, geometry: WellGeometry, t0Seconds: number, kMetersPerSecond: number): QcFlag | null {
+export function intakeFlag(method: FitMethod, geometry: WellGeometry, t0Seconds: number, kMetersPerSecond: number): QcFlag | null {
   const used = method === 'hvorslev' ? intakeRadiusOf(geometry) : bouwerRiceRadiusOf(geometry);
   const boreholeRadiusM = boreholeRadiusOf(geometry);
   if (used !== geometry.screenRadiusM || !(boreholeRadiusM > geometry.screenRadiusM)) return null;

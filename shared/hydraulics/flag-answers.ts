@@ -22,6 +22,8 @@ export function flagKind(code: string): FlagKind {
 /** The part of a fit these rules read. */
 export interface FitChoices {
   method: FitMethod;
+  /** Default 'line'. A high-K fit has no window or line to change. */
+  model?: 'line' | 'high-k';
   line: 'anchored' | 'free';
   /** The head range the window actually spans (from the result). */
   window: { headMax: number; headMin: number };
@@ -41,9 +43,13 @@ export interface FlagAction {
 
 const range = (r: { upper: number; lower: number }) => `H/H0 ${r.upper}–${r.lower}`;
 
+/** Flags about the straight line and its window: they never apply to a high-K fit. */
+export const LINE_ONLY_CODES: ReadonlySet<string> = new Set(['concave-upward', 'window-outside-recommended', 'low-r-squared', 'too-few-readings']);
+
 /** The one-click answer to a flag, or null when only a reason can answer it. */
-export function flagAction(flag: { code: string }, method: FitMethod): FlagAction | null {
+export function flagAction(flag: { code: string }, method: FitMethod, model: 'line' | 'high-k' = 'line'): FlagAction | null {
   const recommended = RECOMMENDED_HEAD_RANGES[method];
+  if (model === 'high-k' && LINE_ONLY_CODES.has(flag.code)) return null;
   switch (flag.code) {
     // The recommended range lies inside the late segment for both methods: one window answers both flags.
     case 'concave-upward':

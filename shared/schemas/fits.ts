@@ -60,30 +60,45 @@ export const fitGeometryChangeSchema = fitGeometrySchema
 
 export const FIT_METHOD_IDS = ['hvorslev', 'bouwer-rice'] as const;
 export const FIT_LINE_IDS = ['anchored', 'free'] as const;
+/** The model fitted: the straight line of ln(H/H0) (overdamped), or the high-K model (docs/methods.md 6a). */
+export const FIT_MODEL_IDS = ['line', 'high-k'] as const;
+export type FitModel = (typeof FIT_MODEL_IDS)[number];
+export const fitModelSchema = z.enum(FIT_MODEL_IDS, { error: 'Model must be "line" (straight line) or "high-k"' });
+
+/** High-K settings: L_e fitted to the record (default) or held at the entered value (or the well's estimate). */
+export const highKOptionsSchema = z.object({
+  effectiveLengthM: positive('Effective length L_e').max(1000, 'Effective length L_e is at most 1000 m').optional(),
+  fitEffectiveLength: z.boolean({ error: 'Fit L_e must be true or false' }).default(true),
+});
+export type HighKOptions = z.infer<typeof highKOptionsSchema>;
+
+const fitOptionsSchema = z.object({
+  allowOscillation: z.boolean().default(false),
+  material: z.string().max(60).optional(),
+  highK: highKOptionsSchema.optional(),
+});
 
 export const fitBodySchema = z.object({
   method: z.enum(FIT_METHOD_IDS, { error: 'Method must be Hvorslev or Bouwer-Rice' }),
+  /** 'high-k': the high-K variant of the method (window and line do not apply). */
+  model: fitModelSchema.default('line'),
   line: z.enum(FIT_LINE_IDS, { error: 'Line must be anchored or free' }).default('anchored'),
   /** Omitted: the method's recommended head range (or 0.05 < H/H0 ≤ 1). */
   window: fitWindowSchema.optional(),
   /** Omitted fields come from the well. */
   geometry: fitGeometryChangeSchema.default({}),
-  options: z
-    .object({
-      allowOscillation: z.boolean().default(false),
-      material: z.string().max(60).optional(),
-    })
-    .default({ allowOscillation: false }),
+  options: fitOptionsSchema.default({ allowOscillation: false }),
   note: z.string().max(2000, 'Note must be at most 2000 characters').default(''),
 });
 export type FitBody = z.input<typeof fitBodySchema>;
 /** A change to a fit: omitted fields stay; `window: null` returns to the method's default window. */
 export const fitPatchSchema = z.object({
   method: fitBodySchema.shape.method.optional(),
+  model: fitModelSchema.optional(),
   line: z.enum(FIT_LINE_IDS, { error: 'Line must be anchored or free' }).optional(),
   window: fitWindowSchema.nullable().optional(),
   geometry: fitGeometryChangeSchema.optional(),
-  options: z.object({ allowOscillation: z.boolean().default(false), material: z.string().max(60).optional() }).optional(),
+  options: fitOptionsSchema.optional(),
   note: z.string().max(2000, 'Note must be at most 2000 characters').optional(),
   /** The code of the flag whose suggested action this change applies: recorded as resolved when the change answers it. */
   resolving: z.string().max(60).optional(),
@@ -105,6 +120,31 @@ export const qcFlagSchema = z.object({
   reference: z.string().optional(),
 });
 
+export const FIT_WINDOW_SOURCES = ['recommended', 'fallback', 'entered', 'all-readings'] as const;
+
+/**
+ * The high-K fit's numbers. Its straight-line fields are filled so that lists, Well K and the map
+ * read it like any fit: t0Seconds = C_D·√(L_e/g) (the equivalent time lag), slopePerSecond = −1/T0.
+ */
+export const fitHighKResultSchema = z.object({
+  dampingParameter: z.number(),
+  regime: z.enum(['underdamped', 'critically-damped', 'overdamped']),
+  effectiveLengthM: z.number(),
+  /** What the well's geometry gives for L_e; null when it cannot be estimated. */
+  effectiveLengthEstimateM: z.number().nullable(),
+  effectiveLengthFitted: z.boolean(),
+  /** √(L_e/g), s. */
+  timeScaleSeconds: z.number(),
+  /** Underdamped only. */
+  dampedPeriodSeconds: z.number().nullable(),
+  /** √(SS_res/n) in H/H0. */
+  residualRms: z.number(),
+  timeOffsetSeconds: z.number(),
+  /** Relative standard error of K from the fit; null when the record does not determine it. */
+  kRelativeStandardError: z.number().nullable(),
+});
+export type FitHighKResult = z.infer<typeof fitHighKResultSchema>;
+
 export const personRefSchema = z.object({ id: z.string(), name: z.string() });
 
 export const fitSchema = z.object({
@@ -120,10 +160,15 @@ export const fitSchema = z.object({
   /** Set when a later revision of the same chain has been Checked. */
   supersededAt: isoDateTime.nullable(),
   method: z.enum(FIT_METHOD_IDS),
+  model: fitModelSchema,
   line: z.enum(FIT_LINE_IDS),
   windowInput: fitWindowSchema.nullable(),
   geometry: fitGeometrySchema,
-  options: z.object({ allowOscillation: z.boolean(), material: z.string().optional() }),
+  options: z.object({
+    allowOscillation: z.boolean(),
+    material: z.string().optional(),
+    highK: z.object({ effectiveLengthM: z.number().optional(), fitEffectiveLength: z.boolean() }).optional(),
+  }),
   note: z.string(),
   result: z.object({
     slopePerSecond: z.number(),
@@ -132,7 +177,8 @@ export const fitSchema = z.object({
     rSquared: z.number(),
     count: z.number().int(),
     window: z.object({
-      source: z.enum(['recommended', 'fallback', 'entered']),
+      /** 'all-readings': a high-K fit, over every reading from the test start. */
+      source: z.enum(FIT_WINDOW_SOURCES),
       fromSeconds: z.number(),
       toSeconds: z.number(),
       headMax: z.number(),
@@ -150,6 +196,8 @@ export const fitSchema = z.object({
     casingRadiusIsEffective: z.boolean(),
     lineReference: z.string(),
     kReference: z.string(),
+    /** A high-K fit's own numbers; absent or null for a straight-line fit. */
+    highK: fitHighKResultSchema.nullable().optional(),
   }),
   flags: z.array(qcFlagSchema),
   /** The analyst's reasons for keeping the fit as it is despite a flag that changes K, by flag code. */

@@ -48,25 +48,40 @@ export async function seedDemoFits(ds: DataSource, config: Config): Promise<numb
   records.sort((a, b) => (wells.get(a.wellId)?.name ?? '').localeCompare(wells.get(b.wellId)?.name ?? '') || a.createdAt.getTime() - b.createdAt.getTime());
 
   let made = 0;
+  // Plans go by straight-line fits made, so every state appears whichever records the engine refuses.
+  let lineFits = 0;
   for (const [i, record] of records.entries()) {
-    // Plans go by fits made, so every state appears whichever records the engine refuses.
-    const plan = PLANS[made % PLANS.length];
+    let plan = PLANS[lineFits % PLANS.length];
     const preparer = plan === 'checked-by-lead' ? as(analyst, 'Analyst') : i % 7 === 3 ? as(lead, 'Lead') : as(analyst, 'Analyst');
     const reviewer = plan === 'checked-by-lead' || preparer.user.id === checker.id ? as(lead, 'Lead') : as(checker, 'Checker');
     const method = i % 3 === 2 ? 'bouwer-rice' : 'hvorslev';
     let fit;
     for (const m of method === 'bouwer-rice' ? (['bouwer-rice', 'hvorslev'] as const) : (['hvorslev'] as const)) {
       try {
-        fit = await svc.create(record.id, preparer, { method: m, line: 'anchored', geometry: {}, options: { allowOscillation: false }, note: '' });
+        fit = await svc.create(record.id, preparer, { method: m, model: 'line', line: 'anchored', geometry: {}, options: { allowOscillation: false }, note: '' });
         break;
       } catch (e) {
-        // A well whose construction a method refuses falls back to Hvorslev; the oscillating demo
-        // record stays unfitted, as it should.
+        // A well whose construction a method refuses falls back to Hvorslev.
         if (!(e instanceof AppError && e.status === 400)) throw e;
+        // The oscillating demo record gets the high-K model (Hvorslev variant, L_e fitted) instead.
+        if (e.code === 'OSCILLATING') {
+          fit = await svc.create(record.id, preparer, {
+            method: 'hvorslev',
+            model: 'high-k',
+            line: 'anchored',
+            geometry: {},
+            options: { allowOscillation: false, highK: { fitEffectiveLength: true } },
+            note: 'Oscillating record: fitted with the high-K model (invented demo note).',
+          });
+          // Checked, so the oscillating well has its Well K on the map; the line fits keep their plans.
+          plan = 'checked';
+          break;
+        }
       }
     }
     if (!fit) continue;
     made++;
+    if (fit.model === 'line') lineFits++;
     if (plan === 'draft') continue;
     await svc.submit(fit.id, preparer, demoReasons(fit));
     if (plan === 'awaiting-check') continue;

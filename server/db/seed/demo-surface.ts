@@ -41,7 +41,7 @@ export async function seedDemoSurface(ds: DataSource, config: Config): Promise<v
 
   const recordIds = await ds.transaction((m) => seedDemoChannelRecords(m, site));
   for (const recordId of recordIds) {
-    const fit = await fits.create(recordId, as(analyst, 'Analyst'), { method: 'hvorslev', line: 'anchored', geometry: {}, options: { allowOscillation: false }, note: '' });
+    const fit = await fits.create(recordId, as(analyst, 'Analyst'), { method: 'hvorslev', model: 'line', line: 'anchored', geometry: {}, options: { allowOscillation: false }, note: '' });
     await fits.submit(fit.id, as(analyst, 'Analyst'), demoReasons(fit));
     await fits.check(fit.id, as(checker, 'Checker'), 'checked', '');
   }

@@ -1,5 +1,5 @@
 import { Column, Entity, Index, JoinColumn, ManyToOne, PrimaryGeneratedColumn, type Relation } from 'typeorm';
-import type { FitGeometry, FitStatus, FitWindowInput } from '@shared/schemas/fits';
+import type { FitGeometry, FitHighKResult, FitModel, FitStatus, FitWindowInput, HighKOptions } from '@shared/schemas/fits';
 import type { RecordEntity } from '../records/record.entity';
 import type { User } from '../users/user.entity';
 
@@ -10,7 +10,7 @@ export interface StoredFitResult {
   t0Seconds: number;
   rSquared: number;
   count: number;
-  window: { source: 'recommended' | 'fallback' | 'entered'; fromSeconds: number; toSeconds: number; headMax: number; headMin: number; count: number };
+  window: { source: 'recommended' | 'fallback' | 'entered' | 'all-readings'; fromSeconds: number; toSeconds: number; headMax: number; headMin: number; count: number };
   h0M: number;
   effectiveH0M: number;
   expectedH0M: number | null;
@@ -22,6 +22,8 @@ export interface StoredFitResult {
   casingRadiusIsEffective: boolean;
   lineReference: string;
   kReference: string;
+  /** A high-K fit's own numbers; absent on a straight-line fit. */
+  highK?: FitHighKResult | null;
 }
 
 /**
@@ -66,6 +68,10 @@ export class FitEntity {
   @Column('varchar', { length: 16 })
   method: 'hvorslev' | 'bouwer-rice';
 
+  /** 'line' (straight line of ln H/H0) or 'high-k' (the high-K variant of `method`). */
+  @Column('varchar', { length: 16, default: 'line' })
+  model: FitModel;
+
   @Column('varchar', { length: 16 })
   line: 'anchored' | 'free';
 
@@ -76,7 +82,7 @@ export class FitEntity {
   geometry: FitGeometry;
 
   @Column('simple-json')
-  options: { allowOscillation: boolean; material?: string };
+  options: { allowOscillation: boolean; material?: string; highK?: HighKOptions };
 
   @Column('text', { default: '' })
   note: string;

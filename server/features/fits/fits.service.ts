@@ -1,6 +1,7 @@
 import { In, IsNull, Not, type EntityManager } from 'typeorm';
 import type { z } from 'zod';
 import { analyzeReduced, type FitResult } from '@shared/hydraulics/analyze';
+import { analyzeHighKReduced, highKResultFields, type HighKAnalysis } from '@shared/hydraulics/analyze-high-k';
 import { EngineInputError, OscillatingResponseError } from '@shared/hydraulics/errors';
 import { answeredByFit, flagAction, flagKind, unansweredFlags, type FitChoices } from '@shared/hydraulics/flag-answers';
 import type { QcFlag } from '@shared/hydraulics/flags';
@@ -94,25 +95,46 @@ function engineGeometry(g: FitGeometry): WellGeometry {
   return { ...g };
 }
 
-/** Run the engine; its typed errors become 400s naming the field. */
-function compute(reduced: ReducedRecord, body: Pick<FitBody, 'method' | 'line' | 'window' | 'options'>, geometry: FitGeometry, slugVolumeM3: number | null): FitResult {
+type ComputeBody = Pick<FitBody, 'method' | 'model' | 'line' | 'window' | 'options'>;
+type Computed = { kind: 'line'; result: FitResult } | { kind: 'high-k'; result: HighKAnalysis };
+
+/** Run the engine (the straight line or the high-K model); its typed errors become 400s naming the field. */
+function compute(reduced: ReducedRecord, body: ComputeBody, geometry: FitGeometry, slugVolumeM3: number | null): Computed {
   try {
-    return analyzeReduced(reduced, {
-      method: body.method,
-      line: body.line,
-      window: body.window,
-      geometry: engineGeometry(geometry),
-      allowOscillation: body.options.allowOscillation,
-      material: body.options.material as never,
-      slugVolumeM3: slugVolumeM3 ?? undefined,
-    });
+    if (body.model === 'high-k') {
+      return {
+        kind: 'high-k',
+        result: analyzeHighKReduced(reduced, {
+          variant: body.method,
+          geometry: engineGeometry(geometry),
+          effectiveLengthM: body.options.highK?.effectiveLengthM,
+          fitEffectiveLength: body.options.highK?.fitEffectiveLength ?? true,
+          material: body.options.material as never,
+        }),
+      };
+    }
+    return {
+      kind: 'line',
+      result: analyzeReduced(reduced, {
+        method: body.method,
+        line: body.line,
+        window: body.window,
+        geometry: engineGeometry(geometry),
+        allowOscillation: body.options.allowOscillation,
+        material: body.options.material as never,
+        slugVolumeM3: slugVolumeM3 ?? undefined,
+      }),
+    };
   } catch (e) {
     if (e instanceof OscillatingResponseError) {
       throw new AppError(
         'OSCILLATING',
-        `${e.flag.message} The overdamped methods (Hvorslev, Bouwer-Rice) do not apply; fit anyway only with the explicit override.`,
+        `${e.flag.message} The overdamped methods (Hvorslev, Bouwer-Rice) do not apply: fit it with the high-K model instead (model "high-k"), or fit the straight line anyway only with the explicit override.`,
         400,
-        { 'options.allowOscillation': 'The record oscillates: tick "fit anyway" to fit it regardless' },
+        {
+          model: 'The record oscillates: fit it with the high-K model instead',
+          'options.allowOscillation': 'The record oscillates: tick "fit anyway" to fit the straight line regardless',
+        },
       );
     }
     if (e instanceof EngineInputError) {
@@ -121,6 +143,10 @@ function compute(reduced: ReducedRecord, body: Pick<FitBody, 'method' | 'line' |
     }
     throw e;
   }
+}
+
+function toStored(c: Computed, reduced: ReducedRecord, slugVolumeM3: number | null): StoredFitResult {
+  return c.kind === 'high-k' ? highKResultFields(c.result.fit, reduced, slugVolumeM3) : toStoredResult(c.result, reduced, slugVolumeM3);
 }
 
 function toStoredResult(r: FitResult, reduced: ReducedRecord, slugVolumeM3: number | null): StoredFitResult {
@@ -186,31 +212,34 @@ function diff(before: Record<string, unknown>, after: Record<string, unknown>): 
   return out;
 }
 
-const paramsOf = (f: Pick<FitEntity, 'method' | 'line' | 'windowInput' | 'geometry' | 'options' | 'note'>) => ({
+const paramsOf = (f: Pick<FitEntity, 'method' | 'model' | 'line' | 'windowInput' | 'geometry' | 'options' | 'note'>) => ({
   method: f.method,
+  model: f.model,
   line: f.line,
   window: f.windowInput,
   ...Object.fromEntries(Object.entries(f.geometry).map(([k, v]) => [`geometry.${k}`, v])),
   allowOscillation: f.options.allowOscillation,
   material: f.options.material ?? null,
+  'highK.effectiveLengthM': f.options.highK?.effectiveLengthM ?? null,
+  'highK.fitEffectiveLength': f.options.highK ? f.options.highK.fitEffectiveLength : null,
   note: f.note,
 });
 
 /** What the flag rules read of a stored fit. */
-function choicesOf(f: Pick<FitEntity, 'method' | 'line' | 'result'>): FitChoices {
-  return { method: f.method, line: f.line, window: { headMax: f.result.window.headMax, headMin: f.result.window.headMin } };
+function choicesOf(f: Pick<FitEntity, 'method' | 'model' | 'line' | 'result'>): FitChoices {
+  return { method: f.method, model: f.model, line: f.line, window: { headMax: f.result.window.headMax, headMin: f.result.window.headMin } };
 }
 
 /**
  * The record of a flag resolved by its suggested action: when the fit had the flag open and, after
  * the change, the flag is gone or answered by the fit. Otherwise nothing is recorded.
  */
-function resolvedBy(code: string, before: FitEntity, after: Pick<FitEntity, 'method' | 'line' | 'result' | 'flags'>, byId: string, now: Date): ResolvedFlag | null {
+function resolvedBy(code: string, before: FitEntity, after: Pick<FitEntity, 'method' | 'model' | 'line' | 'result' | 'flags'>, byId: string, now: Date): ResolvedFlag | null {
   const had = (before.flags as QcFlag[]).find((f) => f.code === code);
   if (!had || flagKind(code) !== 'changes-k' || answeredByFit(had, choicesOf(before))) return null;
   const still = (after.flags as QcFlag[]).find((f) => f.code === code);
   if (still && !answeredByFit(still, choicesOf(after))) return null;
-  return { code, message: had.message, action: flagAction(had, before.method)?.label ?? 'Changed the fit', byId, at: now.toISOString() };
+  return { code, message: had.message, action: flagAction(had, before.method, before.model)?.label ?? 'Changed the fit', byId, at: now.toISOString() };
 }
 
 export function createFitsService({ ds, config, outbox }: AppContext) {
@@ -250,6 +279,7 @@ export function createFitsService({ ds, config, outbox }: AppContext) {
       status: fit.status,
       supersededAt: fit.supersededAt?.toISOString() ?? null,
       method: fit.method,
+      model: fit.model ?? 'line',
       line: fit.line,
       windowInput: fit.windowInput,
       geometry: fit.geometry,
@@ -291,14 +321,14 @@ export function createFitsService({ ds, config, outbox }: AppContext) {
   }
 
   /** Compute a fit on the server from a record and settings, merged over the well's geometry. */
-  async function computeFor(m: EntityManager, recordId: string, body: Pick<FitBody, 'method' | 'line' | 'window' | 'options' | 'geometry'>, base?: FitGeometry) {
+  async function computeFor(m: EntityManager, recordId: string, body: ComputeBody & Pick<FitBody, 'geometry'>, base?: FitGeometry) {
     const record = await m.getRepository(RecordEntity).findOne({ where: { id: recordId } });
     if (!record) throw notFound('The record');
     const well = await m.getRepository(Well).findOneOrFail({ where: { id: record.wellId } });
     const geometry = { ...(base ?? wellGeometry(well)), ...body.geometry } as FitGeometry;
     const reduced = await loadReduced(m, record);
-    const result = compute(reduced, body, geometry, record.slugVolumeM3);
-    return { record, well, geometry, result: toStoredResult(result, reduced, record.slugVolumeM3), flags: result.flags };
+    const computed = compute(reduced, body, geometry, record.slugVolumeM3);
+    return { record, well, geometry, result: toStored(computed, reduced, record.slugVolumeM3), flags: computed.result.flags };
   }
 
   async function create(recordId: string, actor: Actor, body: FitBody): Promise<Fit> {
@@ -314,6 +344,7 @@ export function createFitsService({ ds, config, outbox }: AppContext) {
         chainId: '',
         revision: 1,
         method: body.method,
+        model: body.model,
         line: body.line,
         windowInput: body.window ?? null,
         geometry,
@@ -326,6 +357,7 @@ export function createFitsService({ ds, config, outbox }: AppContext) {
       await repo.update({ id: f.id }, { chainId: f.id });
       await event(m, f.id, 'created', actor.user.id, {
         method: body.method,
+        ...(body.model === 'high-k' ? { model: body.model, ...(body.options.highK ? { highK: body.options.highK } : {}) } : {}),
         line: body.line,
         kMetersPerSecond: result.kMetersPerSecond,
         ...intakeOverride(geometry, well),
@@ -356,6 +388,7 @@ export function createFitsService({ ds, config, outbox }: AppContext) {
       }
       const merged = {
         method: patch.method ?? fit.method,
+        model: patch.model ?? fit.model ?? 'line',
         line: patch.line ?? fit.line,
         window: (patch.window === undefined ? fit.windowInput : patch.window) ?? undefined,
         options: patch.options ?? fit.options,
@@ -363,7 +396,7 @@ export function createFitsService({ ds, config, outbox }: AppContext) {
         note: patch.note ?? fit.note,
       };
       const { geometry, result, flags } = await computeFor(m, fit.recordId, { ...merged, geometry: merged.geometry as FitGeometry }, fit.geometry);
-      const next = { method: merged.method, line: merged.line, windowInput: merged.window ?? null, geometry, options: merged.options, note: merged.note };
+      const next = { method: merged.method, model: merged.model, line: merged.line, windowInput: merged.window ?? null, geometry, options: merged.options, note: merged.note };
       const changes = diff(paramsOf(fit), paramsOf(next));
       const now = new Date();
       if (fit.status === 'checked') {

@@ -80,3 +80,15 @@ export function formatLengthIn(valueM: number, unit: LengthUnit, digits = 3): st
 export function formatLogSpread(log10StdDev: number): string {
   return `± ${log10StdDev.toFixed(2)} log10 units (a factor of ${formatQuantity(10 ** log10StdDev, 2)})`;
 }
+
+/** The damping regime of a high-K fit in words, for the result card. */
+export function describeRegime(regime: 'underdamped' | 'critically-damped' | 'overdamped'): { label: string; meaning: string } {
+  switch (regime) {
+    case 'underdamped':
+      return { label: 'Underdamped', meaning: 'the level oscillates about static as it recovers' };
+    case 'critically-damped':
+      return { label: 'Critically damped', meaning: 'the level returns to static as fast as it can without crossing it' };
+    default:
+      return { label: 'Overdamped', meaning: 'the level returns to static without oscillating; inertia shapes the early readings' };
+  }
+}

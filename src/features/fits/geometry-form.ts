@@ -157,3 +157,17 @@ export function geometryFieldOf(path: string): GeometryField | null {
   };
   return path.startsWith('geometry.') ? (map[key] ?? null) : null;
 }
+
+/**
+ * The high-K effective length L_e as typed (site length unit) in metres: empty gives undefined
+ * (the fit starts from, or holds, the well's estimate); otherwise a positive number or the message.
+ */
+export function effectiveLengthFromDraft(text: string, unit: LengthUnit): { valueM?: number; error?: string } {
+  const n = parseNumber(text);
+  if (n === undefined) return {};
+  if (n === 'invalid') return { error: 'Effective length L_e must be a number' };
+  if (!(n > 0)) return { error: 'Effective length L_e must be greater than 0' };
+  const valueM = lengthToSi(n, unit);
+  if (valueM > 1000) return { error: 'Effective length L_e is at most 1000 m' };
+  return { valueM };
+}

@@ -1,5 +1,15 @@
 import type { Fit, FitGeometry } from '@shared/schemas/fits';
 import { analyzeReduced, type FitResult, type FitSettings } from '@shared/hydraulics/analyze';
+import {
+  analyzeHighKReduced,
+  highKResultFields,
+  sampleHighKCurve,
+  type HighKAnalysis,
+  type HighKCurveModel,
+  type HighKSettings,
+  type HighKSummary,
+} from '@shared/hydraulics/analyze-high-k';
+import { modelHead } from '@shared/hydraulics/high-k';
 import { bouwerRiceShape } from '@shared/hydraulics/bouwer-rice';
 import { EngineInputError, OscillatingResponseError } from '@shared/hydraulics/errors';
 import { FALLBACK_HEAD_RANGE, RECOMMENDED_HEAD_RANGES, type FitMethod, type FitWindow } from '@shared/hydraulics/fitting';
@@ -28,6 +38,7 @@ export function toReducedRecord(dto: ReducedDto): ReducedRecord {
 
 export type Preview =
   | { kind: 'ok'; result: FitResult }
+  | { kind: 'high-k'; result: HighKAnalysis; milliseconds: number }
   | { kind: 'oscillating'; flag: QcFlag }
   | { kind: 'input-error'; field: string; message: string };
 
@@ -42,14 +53,29 @@ export function runPreview(reduced: ReducedRecord, settings: FitSettings): Previ
   }
 }
 
+/** The high-K model on the client: the Levenberg-Marquardt fit runs in the browser like the line. */
+export function runHighKPreview(reduced: ReducedRecord, settings: HighKSettings): Preview {
+  try {
+    const started = performance.now();
+    const result = analyzeHighKReduced(reduced, settings);
+    return { kind: 'high-k', result, milliseconds: performance.now() - started };
+  } catch (error) {
+    if (error instanceof EngineInputError) return { kind: 'input-error', field: error.field, message: error.message };
+    throw error;
+  }
+}
+
 /** One shape for a preview and a stored result, so the plot and the panel draw either. */
 export interface ResultView {
+  model: 'line' | 'high-k';
+  /** A high-K fit's own numbers; null for a straight line. */
+  highK: HighKSummary | null;
   slopePerSecond: number;
   intercept: number;
   t0Seconds: number;
   rSquared: number;
   count: number;
-  window: { source: 'recommended' | 'fallback' | 'entered'; fromSeconds: number; toSeconds: number; headMax: number; headMin: number };
+  window: { source: 'recommended' | 'fallback' | 'entered' | 'all-readings'; fromSeconds: number; toSeconds: number; headMax: number; headMin: number };
   h0M: number;
   effectiveH0M: number;
   expectedH0M: number | null;
@@ -67,9 +93,23 @@ export interface ResultView {
   flags: QcFlag[];
 }
 
+/** The method's shape details as the panel shows them. */
+function shapeView(k: FitResult['k']): Pick<ResultView, 'simplified' | 'bouwerRice'> {
+  return {
+    simplified:
+      k.method === 'hvorslev'
+        ? { kMetersPerSecond: k.simplified.kMetersPerSecond, valid: k.simplified.valid, mLOverD: k.mLOverD, differencePercent: k.simplified.differencePercent }
+        : null,
+    bouwerRice:
+      k.method === 'bouwer-rice' ? { lnReOverRw: k.lnReOverRw, penetration: k.penetration, leOverRw: k.leOverRw, capApplied: k.capApplied } : null,
+  };
+}
+
 export function viewFromPreview(result: FitResult, reduced: ReducedRecord, slugVolumeM3: number | null): ResultView {
   const { fit, k, flags } = result;
   return {
+    model: 'line',
+    highK: null,
     slopePerSecond: fit.slopePerSecond,
     intercept: fit.intercept,
     t0Seconds: fit.t0Seconds,
@@ -88,17 +128,24 @@ export function viewFromPreview(result: FitResult, reduced: ReducedRecord, slugV
     lineCrossingSeconds: fit.lineCrossingSeconds,
     recordCrossingSeconds: fit.recordCrossingSeconds,
     kMetersPerSecond: k.kMetersPerSecond,
-    simplified:
-      k.method === 'hvorslev'
-        ? { kMetersPerSecond: k.simplified.kMetersPerSecond, valid: k.simplified.valid, mLOverD: k.mLOverD, differencePercent: k.simplified.differencePercent }
-        : null,
-    bouwerRice:
-      k.method === 'bouwer-rice' ? { lnReOverRw: k.lnReOverRw, penetration: k.penetration, leOverRw: k.leOverRw, capApplied: k.capApplied } : null,
+    ...shapeView(k),
     casingRadiusUsedM: k.casingRadiusM,
     casingRadiusIsEffective: k.casingRadiusIsEffective,
     lineReference: fit.reference,
     kReference: k.reference,
     flags,
+  };
+}
+
+/** A high-K preview in the same shape: the fields the server stores (highKResultFields), and its shape details. */
+export function viewFromHighK(result: HighKAnalysis, reduced: ReducedRecord, slugVolumeM3: number | null): ResultView {
+  const r = highKResultFields(result.fit, reduced, slugVolumeM3);
+  const k = result.fit.shape;
+  return {
+    ...r,
+    model: 'high-k',
+    ...shapeView(k),
+    flags: result.flags,
   };
 }
 
@@ -128,6 +175,8 @@ export function viewFromStored(fit: Fit): ResultView {
         }
       : null;
   return {
+    model: fit.model,
+    highK: fit.model === 'high-k' ? (r.highK ?? null) : null,
     slopePerSecond: r.slopePerSecond,
     intercept: r.intercept,
     t0Seconds: r.t0Seconds,
@@ -181,4 +230,21 @@ export function residuals(reduced: ReducedRecord, view: ResultView, inWindow: (t
     out.residual.push(Math.log(h[i]) - (view.intercept + view.slopePerSecond * e[i]));
   }
   return out;
+}
+
+/**
+ * The fitted high-K curve for the plot: `count` points over the part of the record where the model
+ * still moves (until its envelope, or its slow exponential, is below 10⁻³ of H0), then one point at
+ * the record's end, so a long tail at static does not thin the oscillation out.
+ */
+export function highKCurveForPlot(model: HighKCurveModel & { timeScaleSeconds: number }, endSeconds: number, count = 400): { timeSeconds: number[]; normalizedHead: number[] } {
+  const c = model.dampingParameter;
+  const moving = model.timeOffsetSeconds + 7 * model.timeScaleSeconds * Math.max(2 / c, c);
+  const to = Math.max(model.timeOffsetSeconds + model.timeScaleSeconds, Math.min(endSeconds, moving));
+  const curve = sampleHighKCurve(model, 0, to, count);
+  if (endSeconds > to) {
+    curve.timeSeconds.push(endSeconds);
+    curve.normalizedHead.push(modelHead(model, endSeconds));
+  }
+  return curve;
 }

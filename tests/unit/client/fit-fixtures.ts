@@ -16,6 +16,7 @@ export function fit(over: Partial<Fit> = {}): Fit {
     status: 'awaiting-check',
     supersededAt: null,
     method: 'hvorslev',
+    model: 'line',
     line: 'anchored',
     windowInput: null,
     geometry: { casingRadiusM: 0.0254, screenRadiusM: 0.0508, screenLengthM: 3, intake: 'screen', anisotropyRatio: 1 },

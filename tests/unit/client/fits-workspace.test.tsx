@@ -106,9 +106,29 @@ describe('fit workspace', () => {
     const { container } = await render(<FitWorkspace site={site} reduced={reduced} series={seriesOf(reduced)} fit={null} />);
     await waitFor(() => expect(container.textContent).toContain('The record oscillates'));
     expect(container.querySelector('[data-testid="k-value"]')).toBeNull();
-    const box = getByLabel(container, 'Fit anyway (overdamped methods do not apply)') as HTMLInputElement;
+    const box = getByLabel(container, 'Fit the straight line anyway (overdamped methods do not apply)') as HTMLInputElement;
     await act(async () => box.click());
     await waitFor(() => shownK(container));
+    expect(container.querySelector('[data-flag="oscillation"]')).not.toBeNull();
+  });
+
+  it('offers the high-K model in one click on an oscillating record: K, the regime in words and the fitted curve', async () => {
+    const reduced = reducedFor({ oscillate: true });
+    const { container } = await render(<FitWorkspace site={site} reduced={reduced} series={seriesOf(reduced)} fit={null} />);
+    await waitFor(() => expect(container.textContent).toContain('The record oscillates'));
+    await click(getButton(container, 'Use the high-K model'));
+    // This well has no static level to screen bottom, so L_e cannot be estimated: the field asks for it.
+    const le = getByLabel(container, 'Effective length L_e (m)');
+    await waitFor(() => expect(le.getAttribute('aria-invalid')).toBe('true'));
+    expect(container.textContent).toContain('cannot be estimated from the well');
+    await type(le, '3');
+    await waitFor(() => shownK(container));
+    expect(container.querySelector('[data-testid="damping-regime"]')?.getAttribute('data-regime')).toBe('underdamped');
+    expect(container.textContent).toContain('the level oscillates about static as it recovers');
+    expect(container.querySelector('[data-testid="fitted-model-curve"]')).not.toBeNull();
+    expect(container.querySelector('[data-testid="fitting-window-band"]')).toBeNull();
+    expect(container.querySelector('[data-testid="recommended-range"]')).toBeNull();
+    expect(getByLabel(container, 'Fit L_e to the record')).toBeTruthy();
     expect(container.querySelector('[data-flag="oscillation"]')).not.toBeNull();
   });
 

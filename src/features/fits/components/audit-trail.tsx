@@ -21,6 +21,7 @@ const KIND_LABELS: Record<FitEvent['kind'], string> = {
 
 const FIELD_LABELS: Record<string, string> = {
   method: 'Method',
+  model: 'Model',
   line: 'Line',
   window: 'Fitting window',
   note: 'Note',
@@ -35,12 +36,19 @@ const FIELD_LABELS: Record<string, string> = {
   'geometry.saturatedThicknessM': 'Saturated thickness (m)',
   allowOscillation: 'Fit an oscillating record',
   material: 'Material',
+  'highK.effectiveLengthM': 'Effective length L_e (m)',
+  'highK.fitEffectiveLength': 'Fit L_e to the record',
+  highK: 'High-K settings',
+  effectiveLengthM: 'L_e (m)',
+  fitEffectiveLength: 'fit L_e',
 };
 
 const VALUE_LABELS: Record<string, string> = {
   ...Object.fromEntries(FIT_METHODS.map((m) => [m.id, m.label])),
   anchored: 'anchored',
   free: 'free',
+  line: 'straight line',
+  'high-k': 'high-K model',
   ...FIT_STATUS_LABELS,
   ...Object.fromEntries(MATERIALS.map((m) => [m.id, m.label])),
 };

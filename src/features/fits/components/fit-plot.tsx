@@ -27,6 +27,7 @@ export const PLOT_COLOURS = {
   inWindow: '#135c56',
   outside: '#94a3b8',
   line: '#9a3412',
+  model: '#9a3412',
   band: '#17736b',
   recommended: '#f59e0b',
   oneOverE: '#475569',
@@ -64,6 +65,11 @@ interface Props {
   onTimeUnitChange: (unit: PlotTimeUnit) => void;
   /** Names the plot for screen readers. */
   label: string;
+  /**
+   * The fitted high-K model, sampled: the plot is then H/H0 on a linear axis with the record, the
+   * curve and the static line; no window, recommended range or 1/e (the model uses every reading).
+   */
+  model?: { timeSeconds: readonly number[]; normalizedHead: readonly number[] } | null;
 }
 
 const MARGIN = { left: 60, right: 14, top: 12 };
@@ -101,6 +107,7 @@ export function FitPlot({
   timeUnit,
   onTimeUnitChange,
   label,
+  model = null,
 }: Props) {
   const [containerRef, measured] = useElementWidth<HTMLDivElement>();
   const width = Math.max(300, measured || 720);
@@ -126,7 +133,8 @@ export function FitPlot({
   const view: [number, number] = zoom ?? initialView;
 
   const [yMode, setYMode] = useState<'log' | 'linear'>('log');
-  const linear = yMode === 'linear';
+  const highK = model !== null;
+  const linear = highK || yMode === 'linear';
   // What the readings layer draws: the log series, or every reading (thinned to ~3000) on a linear axis.
   const drawn = useMemo(() => {
     if (!linear || !linearSeries) return { t: elapsedSeconds, h: normalizedHead };
@@ -149,8 +157,12 @@ export function FitPlot({
       if (v < lo) lo = v;
       if (v > hi) hi = v;
     }
+    for (const v of model?.normalizedHead ?? []) {
+      if (v < lo) lo = v;
+      if (v > hi) hi = v;
+    }
     return [lo - 0.02, hi + 0.02];
-  }, [linear, normalizedHead, drawn]);
+  }, [linear, normalizedHead, drawn, model]);
   const per = secondsPer(timeUnit);
   const x = useMemo(() => scaleLinear().domain(view).range([MARGIN.left, MARGIN.left + plotWidth]), [view, plotWidth]);
   const y = useMemo<(v: number) => number>(
@@ -292,10 +304,21 @@ export function FitPlot({
       const h = drawn.h[i];
       if (t < view[0] || t > view[1] || !(h >= yLo) || h > yHi) continue;
       const d = `M${x(t).toFixed(1)},${y(h).toFixed(1)}h0`;
-      (h > 0 && inWindow(t, h) ? inside : outside).push(d);
+      (highK || (h > 0 && inWindow(t, h)) ? inside : outside).push(d);
     }
     return { inside: inside.join(''), outside: outside.join('') };
-  }, [drawn, view, x, y, yLo, yHi, inWindow]);
+  }, [drawn, view, x, y, yLo, yHi, inWindow, highK]);
+
+  const modelPath = useMemo(() => {
+    if (!model) return null;
+    let d = '';
+    for (let i = 0; i < model.timeSeconds.length; i++) {
+      const t = model.timeSeconds[i];
+      if (t < view[0] - (view[1] - view[0]) * 0.01 || t > view[1] + (view[1] - view[0]) * 0.01) continue;
+      d += `${d === '' ? 'M' : 'L'}${x(t).toFixed(1)},${y(model.normalizedHead[i]).toFixed(1)}`;
+    }
+    return d || null;
+  }, [model, view, x, y]);
 
   const residualPath = useMemo(() => {
     if (!residuals) return '';
@@ -339,10 +362,10 @@ export function FitPlot({
             </button>
           ))}
         </div>
-        <span className="ml-1 text-xs text-slate-500" aria-hidden="true">
-          H/H0
+        <span className="ml-1 text-xs text-slate-500" aria-hidden={!highK}>
+          H/H0{highK ? ' linear: the high-K model is fitted to H/H0 itself' : ''}
         </span>
-        <div role="radiogroup" aria-label="H/H0 axis" className="inline-flex rounded-md shadow-sm ring-1 ring-slate-300 ring-inset">
+        <div hidden={highK} role="radiogroup" aria-label="H/H0 axis" className="inline-flex rounded-md shadow-sm ring-1 ring-slate-300 ring-inset">
           {(['log', 'linear'] as const).map((m) => (
             <button
               key={m}
@@ -438,7 +461,8 @@ export function FitPlot({
           </text>
 
           <g clipPath={`url(#${clipId})`}>
-            {/* The method's recommended head range. */}
+            {/* The method's recommended head range (straight-line fits only). */}
+            {highK ? null : (<>
             <rect
               x={MARGIN.left}
               width={plotWidth}
@@ -451,6 +475,7 @@ export function FitPlot({
             <text x={MARGIN.left + 6} y={y(Math.max(recommended.lower, yLo)) + 13} fontSize={11} fill="#92400e" {...HALO}>
               recommended H/H0 {recommended.upper.toFixed(2)}–{recommended.lower.toFixed(2)}
             </text>
+            </>)}
 
             {window ? (
               <rect
@@ -468,15 +493,20 @@ export function FitPlot({
             ) : null}
 
             {/* 1/e line. */}
-            <line x1={MARGIN.left} x2={MARGIN.left + plotWidth} y1={oneOverEY} y2={oneOverEY} stroke={PLOT_COLOURS.oneOverE} strokeDasharray="6 4" />
-            <text x={MARGIN.left + plotWidth - 6} y={oneOverEY - 5} textAnchor="end" fontSize={11} fill={PLOT_COLOURS.oneOverE} {...HALO}>
-              1/e = 0.37
-            </text>
+            {highK ? null : (
+              <>
+                <line x1={MARGIN.left} x2={MARGIN.left + plotWidth} y1={oneOverEY} y2={oneOverEY} stroke={PLOT_COLOURS.oneOverE} strokeDasharray="6 4" />
+                <text x={MARGIN.left + plotWidth - 6} y={oneOverEY - 5} textAnchor="end" fontSize={11} fill={PLOT_COLOURS.oneOverE} {...HALO}>
+                  1/e = 0.37
+                </text>
+              </>
+            )}
 
             <path d={points.outside} stroke={PLOT_COLOURS.outside} strokeWidth={4} strokeLinecap="round" data-testid="readings-outside" />
             <path d={points.inside} stroke={PLOT_COLOURS.inWindow} strokeWidth={5} strokeLinecap="round" data-testid="readings-in-window" />
 
             {linePath ? <path d={linePath} fill="none" stroke={PLOT_COLOURS.line} strokeWidth={2} data-testid="fitted-line" /> : null}
+            {modelPath ? <path d={modelPath} fill="none" stroke={PLOT_COLOURS.model} strokeWidth={2} data-testid="fitted-model-curve" /> : null}
             {linear ? (
               <g>
                 <line x1={MARGIN.left} x2={MARGIN.left + plotWidth} y1={y(0)} y2={y(0)} stroke={PLOT_COLOURS.axis} strokeWidth={1} />
@@ -544,7 +574,7 @@ export function FitPlot({
             </text>
           ))}
           <text x={MARGIN.left + 6} y={stripTop + 13} fontSize={11} fill={PLOT_COLOURS.axis} {...HALO}>
-            ln residual of the window’s readings
+            {highK ? 'H/H0 residual: record − model' : 'ln residual of the window’s readings'}
           </text>
           <path d={residualPath} clipPath={`url(#${clipId}-strip)`} stroke={PLOT_COLOURS.inWindow} strokeWidth={4} strokeLinecap="round" data-testid="residuals" />
           <text x={MARGIN.left + plotWidth / 2} y={TOTAL_HEIGHT - 10} textAnchor="middle" fontSize={12} fill={PLOT_COLOURS.axis}>
@@ -598,6 +628,22 @@ export function FitPlot({
             : null}
         </svg>
       </div>
+      {highK ? (
+        <ul className="flex flex-wrap gap-x-4 gap-y-1 text-xs text-slate-600" aria-label="Legend">
+          <li className="flex items-center gap-1.5">
+            <span className="inline-block size-2.5 rounded-full" style={{ background: PLOT_COLOURS.inWindow }} aria-hidden="true" />
+            Readings from the test start (all fitted)
+          </li>
+          <li className="flex items-center gap-1.5">
+            <span className="inline-block h-0.5 w-4" style={{ background: PLOT_COLOURS.model }} aria-hidden="true" />
+            Fitted high-K model
+          </li>
+          <li className="flex items-center gap-1.5">
+            <span className="inline-block h-px w-4" style={{ background: PLOT_COLOURS.axis }} aria-hidden="true" />
+            Static level, H/H0 = 0
+          </li>
+        </ul>
+      ) : (
       <ul className="flex flex-wrap gap-x-4 gap-y-1 text-xs text-slate-600" aria-label="Legend">
         <li className="flex items-center gap-1.5">
           <span className="inline-block size-2.5 rounded-full" style={{ background: PLOT_COLOURS.inWindow }} aria-hidden="true" />
@@ -620,7 +666,8 @@ export function FitPlot({
           Recommended range
         </li>
       </ul>
-      {onWindowChange ? (
+      )}
+      {onWindowChange && !highK ? (
         <p className="text-xs text-slate-500">
           Drag across the plot to draw the fitting window; drag its edges to adjust it, or inside it to move it. Shift + drag or the mouse wheel
           pans and zooms the time axis.

@@ -1,7 +1,7 @@
 import type { ReactNode } from 'react';
 import { K_UNITS, type KUnit } from '@shared/units/conductivity';
 import { InlineSelect } from '@/components/ui/field';
-import { formatDuration, formatK, formatLengthIn, formatPercent, formatQuantity } from '../format';
+import { describeRegime, formatDuration, formatK, formatLengthIn, formatPercent, formatQuantity } from '../format';
 import type { GeometryUnits } from '../geometry-form';
 import { secondsPer, type PlotTimeUnit } from '../plot-math';
 import type { ResultView } from '../preview';
@@ -10,6 +10,7 @@ const WINDOW_SOURCES = {
   recommended: 'the recommended range',
   fallback: 'all readings 0.05 < H/H0 ≤ 1 (fewer than 3 in the recommended range)',
   entered: 'entered',
+  'all-readings': 'every reading from the test start',
 } as const;
 
 function Row({ term, children }: { term: ReactNode; children: ReactNode }) {
@@ -66,6 +67,9 @@ export function FitResults({
           </p>
         ) : null}
       </div>
+      {view.highK ? (
+        <HighKRows view={view} highK={view.highK} units={units} t={t} />
+      ) : (
       <dl className="text-sm">
         <Row term="Basic time lag T0">
           <span data-testid="t0-value">{formatDuration(view.t0Seconds)}</span>
@@ -140,15 +144,72 @@ export function FitResults({
             </Row>
           </>
         ) : null}
-        <Row term={view.casingRadiusIsEffective ? 'Effective casing radius used' : 'Casing radius used'}>
-          {formatLengthIn(view.casingRadiusUsedM, units.radius, 4)}
-          {view.casingRadiusIsEffective ? <span className="block text-xs font-normal text-slate-600">level in the filter pack</span> : null}
-        </Row>
+        <CasingRow view={view} units={units} />
       </dl>
+      )}
       <div className="space-y-0.5 text-xs text-slate-500">
         <p>{view.lineReference}</p>
         <p>{view.kReference}</p>
       </div>
     </section>
+  );
+}
+
+function CasingRow({ view, units }: { view: ResultView; units: GeometryUnits }) {
+  return (
+    <Row term={view.casingRadiusIsEffective ? 'Effective casing radius used' : 'Casing radius used'}>
+      {formatLengthIn(view.casingRadiusUsedM, units.radius, 4)}
+      {view.casingRadiusIsEffective ? <span className="block text-xs font-normal text-slate-600">level in the filter pack</span> : null}
+    </Row>
+  );
+}
+
+/** A high-K fit's numbers: C_D and its regime, L_e (fitted or held, beside the well's estimate), the fit's quality. */
+function HighKRows({ view, highK, units, t }: { view: ResultView; highK: NonNullable<ResultView['highK']>; units: GeometryUnits; t: (seconds: number) => string }) {
+  const regime = describeRegime(highK.regime);
+  return (
+    <dl className="text-sm" data-testid="high-k-result">
+      <Row term="Damping regime">
+        <span className="block" data-testid="damping-regime" data-regime={highK.regime}>
+          {regime.label}
+        </span>
+        <span className="block text-xs font-normal text-slate-600">{regime.meaning}</span>
+      </Row>
+      <Row term="Damping parameter C_D">
+        <span data-testid="damping-parameter">{formatQuantity(highK.dampingParameter, 3)}</span>
+      </Row>
+      <Row term="Effective length L_e">
+        <span className="block" data-testid="effective-length">
+          {formatLengthIn(highK.effectiveLengthM, units.length)}
+        </span>
+        <span className="block text-xs font-normal text-slate-600">
+          {highK.effectiveLengthFitted ? 'fitted to the record' : 'held at the value entered'}
+          {highK.effectiveLengthEstimateM === null ? '; no estimate from the well' : `; ${formatLengthIn(highK.effectiveLengthEstimateM, units.length)} estimated from the well`}
+        </span>
+      </Row>
+      {highK.dampedPeriodSeconds !== null ? <Row term="Damped period">{t(highK.dampedPeriodSeconds)}</Row> : null}
+      <Row term="Equivalent time lag C_D √(L_e/g)">
+        <span data-testid="t0-value">{formatDuration(view.t0Seconds)}</span>
+      </Row>
+      <Row term="Residual RMS">
+        <span data-testid="residual-rms">{formatQuantity(highK.residualRms, 2)}</span>
+        <span className="ml-1 text-xs font-normal text-slate-600">in H/H0</span>
+      </Row>
+      <Row term="r²">
+        <span className="block">{Math.max(0, view.rSquared).toFixed(4)}</span>
+        <span className="block text-xs font-normal text-slate-600">about the mean</span>
+      </Row>
+      {highK.kRelativeStandardError !== null ? <Row term="Standard error of K">± {formatQuantity(highK.kRelativeStandardError * 100, 2)} %</Row> : null}
+      <Row term="Readings used">
+        <span className="block" data-testid="readings-used">
+          {view.count}
+        </span>
+        <span className="block text-xs font-normal text-slate-600">
+          every reading from the test start, t = {t(view.window.fromSeconds)} – {t(view.window.toSeconds)}
+        </span>
+      </Row>
+      <Row term="Measured H0">{formatLengthIn(Math.abs(view.h0M), units.length)}</Row>
+      <CasingRow view={view} units={units} />
+    </dl>
   );
 }

@@ -5,14 +5,16 @@ import type { FitSettings } from '@shared/hydraulics/analyze';
 import { FIT_LINES, FIT_METHODS, type FitLine, type FitMethod, type FitWindow } from '@shared/hydraulics/fitting';
 import { MATERIALS, type MaterialId } from '@shared/hydraulics/materials';
 import { LATE_SEGMENT } from '@shared/hydraulics/qc';
-import type { Fit, FitBody } from '@shared/schemas/fits';
+import type { Fit, FitBody, FitModel } from '@shared/schemas/fits';
+import type { HighKSettings } from '@shared/hydraulics/analyze-high-k';
+import { estimateEffectiveLength } from '@shared/hydraulics/high-k';
 import type { Series } from '@shared/schemas/records';
 import type { Site } from '@shared/schemas/sites';
 import { isKUnit, type KUnit } from '@shared/units/conductivity';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
 import { Card, CardBody, CardHeader } from '@/components/ui/card';
-import { CheckboxField, SelectField, TextAreaField } from '@/components/ui/field';
+import { CheckboxField, SelectField, TextAreaField, TextField } from '@/components/ui/field';
 import { FormError } from '@/components/ui/form-error';
 import { useToast } from '@/components/ui/toast';
 import { isApiError } from '@/lib/api-client';
@@ -23,7 +25,9 @@ import { useSessionState } from '@/lib/use-session-state';
 import { createFit, fitKeys, invalidateFit, updateFit, type ReducedDto } from '../api';
 import { defaultKUnit } from '../format';
 import {
+  displayValue,
   draftFromGeometry,
+  effectiveLengthFromDraft,
   geometryFieldOf,
   geometryFromDraft,
   geometryUnitsFor,
@@ -31,7 +35,20 @@ import {
   type GeometryErrors,
 } from '../geometry-form';
 import { defaultTimeUnit, PLOT_TIME_UNITS, recoveryEndSeconds, type PlotTimeUnit, type TimeRange } from '../plot-math';
-import { residuals, runPreview, toReducedRecord, viewFromPreview, viewFromStored, windowFilter, type ResultView } from '../preview';
+import {
+  highKCurveForPlot,
+  residuals,
+  runHighKPreview,
+  runPreview,
+  toReducedRecord,
+  viewFromHighK,
+  viewFromPreview,
+  viewFromStored,
+  windowFilter,
+  type ResultView,
+} from '../preview';
+import { highKResiduals } from '@shared/hydraulics/analyze-high-k';
+import { formatLengthIn } from '../format';
 import { Cautions } from './cautions';
 import { FitActions, type SubmitAnswers } from './fit-actions';
 import { FitPlot } from './fit-plot';
@@ -43,12 +60,16 @@ import { WindowFields } from './window-fields';
 
 interface Inputs {
   method: FitMethod;
+  model: FitModel;
   line: FitLine;
   window: FitWindow | null;
   geometry: GeometryDraft;
   allowOscillation: boolean;
   material: MaterialId | '';
   note: string;
+  /** High-K: L_e as typed in the site's length unit (empty: the well's estimate), and whether it is fitted. */
+  effectiveLength: string;
+  fitEffectiveLength: boolean;
 }
 
 function initialInputs(fit: Fit | null, reduced: ReducedDto, site: WorkspaceSite): Inputs {
@@ -56,12 +77,15 @@ function initialInputs(fit: Fit | null, reduced: ReducedDto, site: WorkspaceSite
   if (!fit) {
     return {
       method: 'hvorslev',
+      model: 'line',
       line: 'anchored',
       window: null,
       geometry: draftFromGeometry(reduced.defaultGeometry, units),
       allowOscillation: false,
       material: '',
       note: '',
+      effectiveLength: '',
+      fitEffectiveLength: true,
     };
   }
   return {
@@ -72,6 +96,9 @@ function initialInputs(fit: Fit | null, reduced: ReducedDto, site: WorkspaceSite
     allowOscillation: fit.options.allowOscillation,
     material: (MATERIALS.find((m) => m.id === fit.options.material)?.id ?? '') as MaterialId | '',
     note: fit.note,
+    model: fit.model,
+    effectiveLength: displayValue(fit.options.highK?.effectiveLengthM, units.length),
+    fitEffectiveLength: fit.options.highK?.fitEffectiveLength ?? true,
   };
 }
 
@@ -83,6 +110,7 @@ const isPlotTimeUnit = (v: string): v is PlotTimeUnit => PLOT_TIME_UNITS.some((u
 interface SaveErrors {
   geometry: GeometryErrors;
   window?: string;
+  effectiveLength?: string;
   message?: string;
 }
 
@@ -95,9 +123,10 @@ function saveErrorsFrom(error: unknown): SaveErrors {
     const g = geometryFieldOf(path);
     if (g) out.geometry[g] = message;
     else if (path === 'window' || path.startsWith('window.')) out.window = message;
+    else if (path.startsWith('options.highK')) out.effectiveLength = message;
     else rest.push(message);
   }
-  if (rest.length > 0 || (!out.window && Object.keys(out.geometry).length === 0)) out.message = rest.length > 0 ? rest.join(' ') : error.message;
+  if (rest.length > 0 || (!out.window && !out.effectiveLength && Object.keys(out.geometry).length === 0)) out.message = rest.length > 0 ? rest.join(' ') : error.message;
   return out;
 }
 
@@ -157,28 +186,65 @@ export function FitWorkspace({
         : null,
     [parsed.geometry, inputs.method, inputs.line, inputs.window, inputs.allowOscillation, inputs.material, reduced.slugVolumeM3],
   );
-  const preview = useMemo(() => (settings ? runPreview(record, settings) : null), [record, settings]);
+  const highKModel = inputs.model === 'high-k';
+  const effectiveLength = useMemo(() => effectiveLengthFromDraft(inputs.effectiveLength, units.length), [inputs.effectiveLength, units.length]);
+  const highKSettings = useMemo<HighKSettings | null>(
+    () =>
+      parsed.geometry && !effectiveLength.error
+        ? {
+            variant: inputs.method,
+            geometry: parsed.geometry,
+            effectiveLengthM: effectiveLength.valueM,
+            fitEffectiveLength: inputs.fitEffectiveLength,
+            material: inputs.material || undefined,
+          }
+        : null,
+    [parsed.geometry, effectiveLength, inputs.method, inputs.fitEffectiveLength, inputs.material],
+  );
+  // L_e from the well's geometry, for the field's placeholder (null when the well cannot give it).
+  const effectiveLengthEstimateM = useMemo(() => {
+    if (!parsed.geometry) return null;
+    try {
+      return estimateEffectiveLength(parsed.geometry).effectiveLengthM;
+    } catch {
+      return null;
+    }
+  }, [parsed.geometry]);
+  const preview = useMemo(
+    () => (highKModel ? (highKSettings ? runHighKPreview(record, highKSettings) : null) : settings ? runPreview(record, settings) : null),
+    [highKModel, record, settings, highKSettings],
+  );
 
   const showStored = fit !== null && !dirty;
   const view = useMemo<ResultView | null>(
     () =>
-      showStored ? viewFromStored(fit) : preview?.kind === 'ok' ? viewFromPreview(preview.result, record, reduced.slugVolumeM3) : null,
+      showStored
+        ? viewFromStored(fit)
+        : preview?.kind === 'ok'
+          ? viewFromPreview(preview.result, record, reduced.slugVolumeM3)
+          : preview?.kind === 'high-k'
+            ? viewFromHighK(preview.result, record, reduced.slugVolumeM3)
+            : null,
     [showStored, fit, preview, record, reduced.slugVolumeM3],
   );
 
   const engineGeometryErrors: GeometryErrors = {};
   let engineWindowError: string | undefined;
   let engineMessage: string | undefined;
+  let engineEffectiveLengthError: string | undefined;
   if (!showStored && preview?.kind === 'input-error') {
     const g = geometryFieldOf(preview.field);
     if (g) engineGeometryErrors[g] = preview.message.replace(/^geometry\.\w+: /, '');
+    else if (preview.field.startsWith('options.highK')) engineEffectiveLengthError = preview.message.replace(/^options\.highK\.\w+: /, 'L_e ');
     else if (preview.field.startsWith('fit.window')) engineWindowError = `The window ${preview.message.replace(/^fit\.window[.\w]*: /, '')}`;
     else engineMessage = preview.message;
   }
   const geometryErrors = { ...parsed.errors, ...engineGeometryErrors, ...saveErrors.geometry };
   const windowError = saveErrors.window ?? engineWindowError;
+  const effectiveLengthError = effectiveLength.error ?? saveErrors.effectiveLength ?? engineEffectiveLengthError;
 
   const inWindow = useMemo(() => {
+    if (view?.highK) return () => true;
     if (view) return windowFilter(inputs.window, view, inputs.method);
     if (inputs.window?.kind === 'time') {
       const w = inputs.window;
@@ -186,18 +252,43 @@ export function FitWorkspace({
     }
     return () => false;
   }, [view, inputs.window, inputs.method]);
-  const residualSeries = useMemo(() => (view ? residuals(record, view, inWindow) : null), [record, view, inWindow]);
-  const band: TimeRange | null =
-    inputs.window?.kind === 'time' ? inputs.window : view ? { fromSeconds: view.window.fromSeconds, toSeconds: view.window.toSeconds } : null;
+  const curveModel = useMemo(
+    () =>
+      view?.highK
+        ? { dampingParameter: view.highK.dampingParameter, effectiveLengthM: view.highK.effectiveLengthM, timeOffsetSeconds: view.highK.timeOffsetSeconds, timeScaleSeconds: view.highK.timeScaleSeconds }
+        : null,
+    [view],
+  );
+  // The fitted high-K curve, sampled (400 points) from the stored or previewed C_D, L_e and time offset.
+  const modelCurve = useMemo(() => (curveModel ? highKCurveForPlot(curveModel, lastSeconds) : null), [curveModel, lastSeconds]);
+  const residualSeries = useMemo(
+    () => (curveModel ? highKResiduals(record, curveModel) : view ? residuals(record, view, inWindow) : null),
+    [record, view, inWindow, curveModel],
+  );
+  const band: TimeRange | null = view?.highK
+    ? null
+    : inputs.window?.kind === 'time'
+      ? inputs.window
+      : view
+        ? { fromSeconds: view.window.fromSeconds, toSeconds: view.window.toSeconds }
+        : null;
 
   const body = (): FitBody | null => {
     if (!parsed.geometry) return null;
+    if (highKModel && effectiveLength.error) return null;
     return {
       method: inputs.method,
+      model: inputs.model,
       line: inputs.line,
       ...(inputs.window ? { window: inputs.window } : {}),
       geometry: parsed.geometry,
-      options: { allowOscillation: inputs.allowOscillation, ...(inputs.material ? { material: inputs.material } : {}) },
+      options: {
+        allowOscillation: inputs.allowOscillation,
+        ...(inputs.material ? { material: inputs.material } : {}),
+        ...(highKModel
+          ? { highK: { ...(effectiveLength.valueM !== undefined ? { effectiveLengthM: effectiveLength.valueM } : {}), fitEffectiveLength: inputs.fitEffectiveLength } }
+          : {}),
+      },
       note: inputs.note,
     };
   };
@@ -234,7 +325,7 @@ export function FitWorkspace({
     },
     onError: (error) => toast.error(describeError(error)),
   });
-  const choices: FitChoices | null = view ? { method: inputs.method, line: inputs.line, window: view.window } : null;
+  const choices: FitChoices | null = view ? { method: inputs.method, model: view.model, line: inputs.line, window: view.window } : null;
   const answering: FlagAnswering | null = choices
     ? {
         choices,
@@ -257,7 +348,7 @@ export function FitWorkspace({
   const concave = view?.flags.some((f) => f.code === 'concave-upward') ?? false;
   const oscillationFlag = !showStored && preview?.kind === 'oscillating' ? preview.flag : null;
   const oscillationOverridden = inputs.allowOscillation && (view?.flags.some((f) => f.code === 'oscillation') ?? false);
-  const saveBlocked = !parsed.geometry || (!showStored && preview?.kind !== 'ok');
+  const saveBlocked = !parsed.geometry || (!showStored && preview?.kind !== 'ok' && preview?.kind !== 'high-k');
 
   const wide = useMediaQuery('(min-width: 1024px)');
   const resultHeading = showStored ? (
@@ -278,9 +369,13 @@ export function FitWorkspace({
       <CardHeader
         titleId="fit-plot-title"
         title="Normalized head against time"
-        description={`${series.plottable.toLocaleString()} readings from the test start (${series.elapsedSeconds.length.toLocaleString()} drawn)${
-          series.omitted > 0 ? `; ${series.omitted.toLocaleString()} before the start or at static not drawn on the log axis` : ''
-        }.`}
+        description={
+          highKModel
+            ? `Every reading from the test start on a linear axis, with the fitted high-K model (Springer-Gelhar) and the static level H/H0 = 0.`
+            : `${series.plottable.toLocaleString()} readings from the test start (${series.elapsedSeconds.length.toLocaleString()} drawn)${
+                series.omitted > 0 ? `; ${series.omitted.toLocaleString()} before the start or at static not drawn on the log axis` : ''
+              }.`
+        }
       />
       <CardBody>
         {series.elapsedSeconds.length === 0 ? (
@@ -292,10 +387,11 @@ export function FitWorkspace({
             linearSeries={record}
             method={inputs.method}
             window={band}
-            onWindowChange={editable ? (range) => set({ window: { kind: 'time', ...range } }) : undefined}
+            onWindowChange={editable && !highKModel ? (range) => set({ window: { kind: 'time', ...range } }) : undefined}
             inWindow={inWindow}
+            model={modelCurve}
             line={
-              view
+              view && !view.highK
                 ? {
                     intercept: view.intercept,
                     slopePerSecond: view.slopePerSecond,
@@ -308,7 +404,11 @@ export function FitWorkspace({
             residuals={residualSeries}
             timeUnit={timeUnit}
             onTimeUnitChange={setTimeUnit}
-            label={`Semi-log plot of H/H0 against time${view ? `, T0 ${view.t0Seconds.toPrecision(3)} s` : ''}`}
+            label={
+              view?.highK
+                ? `Linear plot of H/H0 against time with the fitted high-K model, C_D ${view.highK.dampingParameter.toPrecision(3)}, ${view.highK.regime}`
+                : `Semi-log plot of H/H0 against time${view ? `, T0 ${view.t0Seconds.toPrecision(3)} s` : ''}`
+            }
           />
         )}
         {reduced.decimated && !showStored ? (
@@ -366,59 +466,118 @@ export function FitWorkspace({
       </CardBody>
     </Card>
   );
+  const switchToHighK = () => set({ model: 'high-k', allowOscillation: false });
   const methodCard = (
     <Card aria-labelledby="fit-method-title">
-      <CardHeader titleId="fit-method-title" title="Method and window" />
+      <CardHeader titleId="fit-method-title" title={highKModel ? 'Model and method' : 'Model, method and window'} />
       <CardBody className="space-y-4">
-        <div className="grid grid-cols-[3fr_2fr] gap-3">
-          <SelectField label="Method" value={inputs.method} onChange={(e) => set({ method: e.target.value as FitMethod })} disabled={!editable}>
+        <SelectField
+          label="Model"
+          value={inputs.model}
+          onChange={(e) => set({ model: e.target.value as FitModel })}
+          disabled={!editable}
+          hint={
+            highKModel
+              ? 'Springer & Gelhar (1991) as Butler (1998) gives it: fitted to H/H0 by nonlinear least squares over every reading from the test start.'
+              : 'The straight line of ln(H/H0) against time (overdamped response).'
+          }
+        >
+          <option value="line">Straight line</option>
+          <option value="high-k">High-K (oscillating or near-critical record)</option>
+        </SelectField>
+        <div className={highKModel ? '' : 'grid grid-cols-[3fr_2fr] gap-3'}>
+          <SelectField
+            label={highKModel ? 'Method (shape factor of the high-K variant)' : 'Method'}
+            value={inputs.method}
+            onChange={(e) => set({ method: e.target.value as FitMethod })}
+            disabled={!editable}
+          >
             {FIT_METHODS.map((m) => (
               <option key={m.id} value={m.id}>
-                {m.label}
+                {highKModel ? `High-K ${m.label}` : m.label}
               </option>
             ))}
           </SelectField>
-          <SelectField label="Line" value={inputs.line} onChange={(e) => set({ line: e.target.value as FitLine })} disabled={!editable}>
-            {FIT_LINES.map((l) => (
-              <option key={l.id} value={l.id}>
-                {l.id === 'anchored' ? 'Anchored' : 'Free'}
-              </option>
-            ))}
-          </SelectField>
+          {highKModel ? null : (
+            <SelectField label="Line" value={inputs.line} onChange={(e) => set({ line: e.target.value as FitLine })} disabled={!editable}>
+              {FIT_LINES.map((l) => (
+                <option key={l.id} value={l.id}>
+                  {l.id === 'anchored' ? 'Anchored' : 'Free'}
+                </option>
+              ))}
+            </SelectField>
+          )}
         </div>
-        <p className="-mt-2 text-xs text-slate-500">{FIT_LINES.find((l) => l.id === inputs.line)?.label}</p>
-        {concave && inputs.line === 'anchored' && editable ? (
-          <Alert tone="warning" title="Early data are concave upward">
-            <p>A free line over the later segment is suggested (a double straight line, often filter-pack drainage).</p>
-            <Button
-              variant="secondary"
-              size="sm"
-              className="mt-2"
-              onClick={() => set({ line: 'free', window: { kind: 'head', upper: LATE_SEGMENT.upper, lower: LATE_SEGMENT.lower } })}
-            >
-              Fit a free line over H/H0 {LATE_SEGMENT.upper}–{LATE_SEGMENT.lower}
-            </Button>
-          </Alert>
-        ) : null}
-        <WindowFields
-          window={inputs.window}
-          resolved={view ? view.window : null}
-          method={inputs.method}
-          timeUnit={timeUnit}
-          onChange={(window) => set({ window })}
-          readOnly={!editable}
-          error={windowError}
-        />
-        {oscillationFlag || oscillationOverridden || inputs.allowOscillation ? (
+        {highKModel ? (
+          <div className="space-y-2">
+            <TextField
+              label={`Effective length L_e (${units.length})`}
+              name="effectiveLength"
+              value={inputs.effectiveLength}
+              onChange={(e) => set({ effectiveLength: e.target.value })}
+              inputMode="decimal"
+              autoComplete="off"
+              readOnly={!editable}
+              placeholder={effectiveLengthEstimateM === null ? undefined : displayValue(effectiveLengthEstimateM, units.length)}
+              error={effectiveLengthError}
+              hint={
+                effectiveLengthEstimateM === null
+                  ? 'The water column that moves: the well cannot estimate it (no static level to screen bottom), so enter it.'
+                  : `The water column that moves. From the well: ${formatLengthIn(effectiveLengthEstimateM, units.length)} (L + (b/2)(rc/rs)²); left empty, the fit ${
+                      inputs.fitEffectiveLength ? 'starts from' : 'holds'
+                    } that.`
+              }
+            />
+            <CheckboxField
+              label="Fit L_e to the record"
+              checked={inputs.fitEffectiveLength}
+              onChange={(e) => set({ fitEffectiveLength: e.target.checked })}
+              disabled={!editable}
+              hint={inputs.fitEffectiveLength ? 'L_e is fitted with C_D; the value above is where the fit starts.' : 'L_e is held at the value above (or the estimate).'}
+            />
+          </div>
+        ) : (
+          <>
+            <p className="-mt-2 text-xs text-slate-500">{FIT_LINES.find((l) => l.id === inputs.line)?.label}</p>
+            {concave && inputs.line === 'anchored' && editable ? (
+              <Alert tone="warning" title="Early data are concave upward">
+                <p>A free line over the later segment is suggested (a double straight line, often filter-pack drainage).</p>
+                <Button
+                  variant="secondary"
+                  size="sm"
+                  className="mt-2"
+                  onClick={() => set({ line: 'free', window: { kind: 'head', upper: LATE_SEGMENT.upper, lower: LATE_SEGMENT.lower } })}
+                >
+                  Fit a free line over H/H0 {LATE_SEGMENT.upper}–{LATE_SEGMENT.lower}
+                </Button>
+              </Alert>
+            ) : null}
+            <WindowFields
+              window={inputs.window}
+              resolved={view ? view.window : null}
+              method={inputs.method}
+              timeUnit={timeUnit}
+              onChange={(window) => set({ window })}
+              readOnly={!editable}
+              error={windowError}
+            />
+          </>
+        )}
+        {!highKModel && (oscillationFlag || oscillationOverridden || inputs.allowOscillation) ? (
           <div className="space-y-2">
             {oscillationFlag ? (
               <Alert tone="error" title="The record oscillates">
                 <p>{oscillationFlag.message}</p>
-                {oscillationFlag.suggestion ? <p className="mt-1">{oscillationFlag.suggestion}</p> : null}
+                <p className="mt-1">The high-K model (Springer-Gelhar) describes an oscillating or near-critical response; the straight line does not.</p>
+                {editable ? (
+                  <Button size="sm" className="mt-2" onClick={switchToHighK}>
+                    Use the high-K model
+                  </Button>
+                ) : null}
               </Alert>
             ) : null}
             <CheckboxField
-              label="Fit anyway (overdamped methods do not apply)"
+              label="Fit the straight line anyway (overdamped methods do not apply)"
               checked={inputs.allowOscillation}
               onChange={(e) => set({ allowOscillation: e.target.checked })}
               disabled={!editable}
@@ -449,7 +608,7 @@ export function FitWorkspace({
             {!parsed.geometry
               ? 'Complete the geometry to compute K.'
               : oscillationFlag
-                ? 'The record oscillates; tick “Fit anyway” to fit it regardless.'
+                ? 'The record oscillates: use the high-K model (under Model), or tick “Fit the straight line anyway”.'
                 : (engineMessage ?? engineWindowError ?? Object.values(engineGeometryErrors)[0] ?? 'Adjust the inputs to compute K.')}
           </Alert>
         )}
