@@ -22,6 +22,7 @@ import { basemapApiRoutes, basemapTileRoutes } from './features/basemaps/basemap
 import { createBasemapsService } from './features/basemaps/basemaps.service';
 import type { Mailer } from './features/mail/mailer';
 import { createMailWorker, type MailWorker, type MailWorkerOptions } from './features/mail/outbox';
+import { exportsRoutes } from './features/exports/exports.router';
 import { fitsRoutes } from './features/fits/fits.router';
 import { mapRoutes } from './features/map/map.router';
 import { kSurfaceRoutes } from './features/ksurface/ksurface.router';
@@ -150,6 +151,7 @@ export function createApp({ config, ds, mailer, mailOptions, log = (m, e) => con
     ...outlinesRoutes(ctx),
     ...kSurfaceRoutes(ctx),
     ...sketchesRoutes(ctx),
+    ...exportsRoutes(ctx),
     ...viewerLinksRoutes(ctx),
     ...basemapApiRoutes(ctx, basemaps),
     ...adminRoutes(ctx, store, auth.sendReset, mail),

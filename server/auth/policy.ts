@@ -141,6 +141,15 @@ export const policyTable: Record<string, PolicyRule> = {
   'GET /api/sites/:siteId/capture-sketches/:sketchId': site(anyRole),
   'DELETE /api/sites/:siteId/capture-sketches/:sketchId': site(['Lead', 'Analyst']),
 
+  // Exports: every member may download what they may read (Viewer included).
+  'GET /api/sites/:siteId/exports/wells.csv': site(anyRole),
+  'GET /api/sites/:siteId/exports/wells.geojson': site(anyRole),
+  'GET /api/sites/:siteId/exports/wells-shapefile.zip': site(anyRole),
+  'GET /api/sites/:siteId/exports/wells.kml': site(anyRole),
+  'GET /api/sites/:siteId/exports/k-surface.tif': site(anyRole),
+  'GET /api/sites/:siteId/exports/k-surface-isobands.geojson': site(anyRole),
+  'GET /api/sites/:siteId/exports/fits.csv': site(anyRole),
+
   'GET /api/sites/:siteId/viewer-links': site(['Lead']),
   'POST /api/sites/:siteId/viewer-links': site(['Lead']),
   'DELETE /api/viewer-links/:linkId': site(['Lead'], byViewerLink),
