@@ -8,6 +8,7 @@ import { PageHeader } from '@/components/ui/page-header';
 import { useMe } from '@/features/auth/hooks';
 import { siteQueryOptions } from '@/features/sites/api';
 import { wellsCsvUrl, wellsQueryOptions } from '@/features/wells/api';
+import { ExportMenu } from '@/components/export-menu';
 import { WellsTable } from '@/features/wells/components/wells-table';
 import { useDocumentTitle } from '@/lib/use-document-title';
 import { siteErrorRenderer } from './site-boundary';
@@ -47,9 +48,10 @@ function SiteWells({ siteId }: { siteId: string }) {
                 </ButtonLink>
               </>
             ) : null}
-            <a href={wellsCsvUrl(site.id)} download className={buttonClasses('secondary')}>
+            <a href={wellsCsvUrl(site.id)} download className={buttonClasses('secondary')} title="In the site’s display units; re-importable">
               Export CSV
             </a>
+            <ExportMenu siteId={site.id} />
           </>
         }
       />

@@ -32,6 +32,8 @@ import { SurfacePanel } from '../surface/surface-panel';
 import { CrossValidationPanel } from '../surface/cross-validation-panel';
 import { OutlinesPanel } from '../surface/outlines-panel';
 import { SketchPanel } from '../surface/sketch-panel';
+import { ExportMenu } from '@/components/export-menu';
+import { surfaceQueryString } from '../surface/api';
 
 const count = (n: number) => n.toLocaleString('en');
 
@@ -203,9 +205,12 @@ export function KMapPage({ site, wells, crsUnit, basemaps, canEdit }: Props) {
           <h1 className="text-xl font-semibold tracking-tight text-slate-900">K map</h1>
           <p className="hidden text-xs text-slate-600 xl:block">Wells coloured by Well K; click one for what lies behind its colour, shift-drag to select several.</p>
         </div>
-        <Button variant="secondary" size="sm" pending={exporting} onClick={() => void exportView()}>
-          Export view as PNG
-        </Button>
+        <div className="flex items-center gap-2">
+          <ExportMenu siteId={site.id} size="sm" surfaceQuery={ws.wellsUsed >= 2 ? surfaceQueryString(ws.surfaceQuery) : null} />
+          <Button variant="secondary" size="sm" pending={exporting} onClick={() => void exportView()}>
+            Export view as PNG
+          </Button>
+        </div>
       </div>
 
       <div className="relative flex min-h-0 flex-1 flex-col lg:block">
