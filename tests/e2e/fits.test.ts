@@ -315,7 +315,7 @@ describe('fit workspace and check in the browser', () => {
     expect(await overflow(page)).toBeLessThanOrEqual(0);
   });
 
-  it('refuses to fit the oscillating demo record silently: the reason, then an explicit override with the flag kept', async () => {
+  it('refuses a straight line on the oscillating demo record silently: the reason and the high-K model offered, then an explicit override with the flag kept', async () => {
     const wells = (await analystApi.get(`/api/sites/${siteId}/wells`)).body.wells as { id: string }[];
     let recordId = '';
     for (const w of wells) {
@@ -334,13 +334,14 @@ describe('fit workspace and check in the browser', () => {
     await page.getByText('The record oscillates').first().waitFor();
     expect(await page.getByTestId('k-value').count()).toBe(0);
     expect(await page.getByRole('button', { name: 'Save fit' }).isDisabled()).toBe(true);
+    expect(await page.getByRole('button', { name: 'Use the high-K model' }).isVisible()).toBe(true);
     await e2e.shot(page, 'fits-oscillating-refused-1280');
     // On a linear axis the swing below static shows as what it is.
     await page.getByRole('radio', { name: 'Linear' }).click();
     await expect.poll(() => page.getByText('static level (H/H0 = 0)').isVisible()).toBe(true);
     await e2e.shot(page, 'fits-oscillating-linear-1280');
     await page.getByRole('radio', { name: 'Log' }).click();
-    await page.getByLabel('Fit anyway (overdamped methods do not apply)').check();
+    await page.getByLabel('Fit the straight line anyway (overdamped methods do not apply)').check();
     await page.getByTestId('k-value').waitFor();
     expect(await page.locator('[data-flag="oscillation"]').count()).toBe(1);
     await page.getByLabel('Method', { exact: true }).selectOption('bouwer-rice');
@@ -352,6 +353,60 @@ describe('fit workspace and check in the browser', () => {
     const saved = (await analystApi.get(`/api/fits/${fitId}`)).body;
     expect(saved.options.allowOscillation).toBe(true);
     expect(saved.flags.some((f: { code: string }) => f.code === 'oscillation')).toBe(true);
+  });
+
+  it('fits the oscillating demo record with the high-K model: linear H/H0 with the fitted curve, C_D and the regime, saved and shown the same', async () => {
+    const wells = (await analystApi.get(`/api/sites/${siteId}/wells`)).body.wells as { id: string; name: string }[];
+    const mw08 = wells.find((w) => w.name === 'MW-08')!;
+    const records = (await analystApi.get(`/api/wells/${mw08.id}/records`)).body.records as { id: string }[];
+    const recordId = records[0].id;
+    const page = await e2e.newPage({ width: 1440, height: 1000 });
+    await e2e.signIn(page, demoEmail('Analyst'));
+    await page.goto(`/sites/${siteId}/records/${recordId}/fit`);
+    await page.getByText('The record oscillates').first().waitFor();
+    await page.getByRole('button', { name: 'Use the high-K model' }).click();
+    await page.getByTestId('k-value').waitFor();
+    expect(await page.getByLabel('Model', { exact: true }).inputValue()).toBe('high-k');
+    expect(await page.getByTestId('damping-regime').getAttribute('data-regime')).toBe('underdamped');
+    expect(await page.getByText('the level oscillates about static as it recovers').isVisible()).toBe(true);
+    // Linear H/H0 with the record, the fitted curve and the static line; no window, no log toggle.
+    expect(await page.getByTestId('fitted-model-curve').count()).toBe(1);
+    expect(await page.getByText('Static level, H/H0 = 0').isVisible()).toBe(true);
+    expect(await page.getByRole('radiogroup', { name: 'H/H0 axis' }).isVisible()).toBe(false);
+    expect(await page.getByTestId('fit-window-band').count()).toBe(0);
+    expect(await page.getByTestId('recommended-range').count()).toBe(0);
+    expect(await page.locator('[data-flag="oscillation"]').count()).toBe(1);
+    const ms = Number(await page.locator('[data-preview-ms]').getAttribute('data-preview-ms'));
+    console.log(`high-K fit of the oscillating demo record in chromium: ${ms} ms`);
+    expect(ms).toBeLessThan(2000);
+    const previewK = Number(await page.getByTestId('k-value').getAttribute('data-k-si'));
+    // L_e held at a typed value changes the fit; fitted again, it is back.
+    await page.getByLabel('Fit L_e to the record').uncheck();
+    await page.getByLabel('Effective length L_e (m)').fill('4');
+    await expect.poll(async () => page.getByTestId('effective-length').textContent()).toMatch(/^4(\.0+)? m$/);
+    await page.getByLabel('Fit L_e to the record').check();
+    await page.getByLabel('Effective length L_e (m)').fill('');
+    await expect.poll(async () => Number(await page.getByTestId('k-value').getAttribute('data-k-si'))).toBeCloseTo(previewK, 12);
+    await e2e.shot(page, 'fits-high-k-preview-1440');
+    await page.getByRole('button', { name: 'Save fit' }).click();
+    await page.waitForURL(/\/fits\/[0-9a-f-]{36}$/);
+    const fitId = page.url().split('/').pop()!;
+    const saved = (await analystApi.get(`/api/fits/${fitId}`)).body;
+    expect(saved.model).toBe('high-k');
+    expect(saved.options.highK).toEqual({ fitEffectiveLength: true });
+    expect(saved.result.highK.regime).toBe('underdamped');
+    // The stored view draws the same from the stored C_D, L_e and time offset.
+    await page.getByText('Stored result, computed by the server').waitFor();
+    expect(await page.getByTestId('fitted-model-curve').count()).toBe(1);
+    expect(Math.abs(Number(await page.getByTestId('k-value').getAttribute('data-k-si')) / saved.result.kMetersPerSecond - 1)).toBeLessThan(1e-9);
+    expect(Math.abs(saved.result.kMetersPerSecond / previewK - 1)).toBeLessThan(0.01);
+    await e2e.shot(page, 'fits-high-k-saved-1440');
+    const narrow = await e2e.newPage({ width: 390, height: 900 });
+    await e2e.signIn(narrow, demoEmail('Analyst'));
+    await narrow.goto(`/sites/${siteId}/fits/${fitId}`);
+    await narrow.getByTestId('damping-regime').waitFor();
+    expect(await overflow(narrow)).toBeLessThanOrEqual(0);
+    await e2e.shot(narrow, 'fits-high-k-saved-390');
   });
 
   it('overlays the normalized curves of a well’s repeat tests, one colour per record, and flags curves that disagree', async () => {

@@ -45,7 +45,7 @@ function FitPage({ siteId, fitId }: { siteId: string; fitId: string }) {
     queries: [siteQueryOptions(fit.siteId || siteId), recordMetaQueryOptions(fit.recordId), reducedQueryOptions(fit.recordId), seriesQueryOptions(fit.recordId)],
   });
   const { data: well } = useSuspenseQuery(wellQueryOptions(fit.wellId));
-  const method = FIT_METHODS.find((m) => m.id === fit.method)?.label ?? fit.method;
+  const method = `${fit.model === 'high-k' ? 'High-K ' : ''}${FIT_METHODS.find((m) => m.id === fit.method)?.label ?? fit.method}`;
   useDocumentTitle(`Fit · ${fit.wellName}`);
   return (
     <>

@@ -130,7 +130,16 @@ export function FitPlot({
     return end < fullDomain[1] * 0.7 ? [0, end] : fullDomain;
   });
   const [zoom, setZoom] = useState<[number, number] | null>(null);
-  const view: [number, number] = zoom ?? initialView;
+  // A high-K fit opens on the oscillation: until the model stays within 2 % of static.
+  const modelView = useMemo<[number, number] | null>(() => {
+    if (!model) return null;
+    let end = 0;
+    for (let i = 0; i < model.timeSeconds.length; i++) if (Math.abs(model.normalizedHead[i]) > 0.02) end = model.timeSeconds[i];
+    end *= 1.1;
+    return end > 0 && end < fullDomain[1] * 0.85 ? [0, end] : fullDomain;
+  }, [model, fullDomain]);
+  const openingView = modelView ?? initialView;
+  const view: [number, number] = zoom ?? openingView;
 
   const [yMode, setYMode] = useState<'log' | 'linear'>('log');
   const highK = model !== null;
@@ -334,7 +343,7 @@ export function FitPlot({
   const zoomBy = (factor: number) => setZoom(zoomView(view, factor, (view[0] + view[1]) / 2, fullDomain));
   const panBy = (share: number) => setZoom(panView(view, (view[1] - view[0]) * share, fullDomain));
   const whole = view[0] <= fullDomain[0] && view[1] >= fullDomain[1];
-  const atInitial = view[0] === initialView[0] && view[1] === initialView[1];
+  const atInitial = view[0] === openingView[0] && view[1] === openingView[1];
   const unitLabel = PLOT_TIME_UNITS.find((u) => u.id === timeUnit)?.label ?? timeUnit;
   const fmtT = (seconds: number) => `${formatQuantity(seconds / per)} ${unitLabel}`;
   const oneOverEY = y(ONE_OVER_E);
@@ -510,9 +519,12 @@ export function FitPlot({
             {linear ? (
               <g>
                 <line x1={MARGIN.left} x2={MARGIN.left + plotWidth} y1={y(0)} y2={y(0)} stroke={PLOT_COLOURS.axis} strokeWidth={1} />
-                <text x={MARGIN.left + plotWidth - 6} y={y(0) + 14} textAnchor="end" fontSize={11} fill={PLOT_COLOURS.axis} {...HALO}>
-                  static level (H/H0 = 0)
-                </text>
+                {/* With the high-K curve the legend names the line: a label here would sit on the oscillation. */}
+                {highK ? null : (
+                  <text x={MARGIN.left + plotWidth - 6} y={y(0) + 14} textAnchor="end" fontSize={11} fill={PLOT_COLOURS.axis} {...HALO}>
+                    static level (H/H0 = 0)
+                  </text>
+                )}
               </g>
             ) : null}
 

@@ -168,13 +168,14 @@ function CasingRow({ view, units }: { view: ResultView; units: GeometryUnits }) 
 function HighKRows({ view, highK, units, t }: { view: ResultView; highK: NonNullable<ResultView['highK']>; units: GeometryUnits; t: (seconds: number) => string }) {
   const regime = describeRegime(highK.regime);
   return (
-    <dl className="text-sm" data-testid="high-k-result">
-      <Row term="Damping regime">
-        <span className="block" data-testid="damping-regime" data-regime={highK.regime}>
+    <div className="space-y-2">
+      <p className="rounded-md bg-slate-50 px-3 py-2 text-sm text-slate-800 ring-1 ring-slate-200 ring-inset">
+        <span className="font-semibold" data-testid="damping-regime" data-regime={highK.regime}>
           {regime.label}
         </span>
-        <span className="block text-xs font-normal text-slate-600">{regime.meaning}</span>
-      </Row>
+        : {regime.meaning}.
+      </p>
+    <dl className="text-sm" data-testid="high-k-result">
       <Row term="Damping parameter C_D">
         <span data-testid="damping-parameter">{formatQuantity(highK.dampingParameter, 3)}</span>
       </Row>
@@ -182,9 +183,9 @@ function HighKRows({ view, highK, units, t }: { view: ResultView; highK: NonNull
         <span className="block" data-testid="effective-length">
           {formatLengthIn(highK.effectiveLengthM, units.length)}
         </span>
+        <span className="block text-xs font-normal text-slate-600">{highK.effectiveLengthFitted ? 'fitted to the record' : 'held as entered'}</span>
         <span className="block text-xs font-normal text-slate-600">
-          {highK.effectiveLengthFitted ? 'fitted to the record' : 'held at the value entered'}
-          {highK.effectiveLengthEstimateM === null ? '; no estimate from the well' : `; ${formatLengthIn(highK.effectiveLengthEstimateM, units.length)} estimated from the well`}
+          {highK.effectiveLengthEstimateM === null ? 'no estimate from the well' : `well estimate ${formatLengthIn(highK.effectiveLengthEstimateM, units.length)}`}
         </span>
       </Row>
       {highK.dampedPeriodSeconds !== null ? <Row term="Damped period">{t(highK.dampedPeriodSeconds)}</Row> : null}
@@ -204,12 +205,14 @@ function HighKRows({ view, highK, units, t }: { view: ResultView; highK: NonNull
         <span className="block" data-testid="readings-used">
           {view.count}
         </span>
+        <span className="block text-xs font-normal text-slate-600">all from the test start</span>
         <span className="block text-xs font-normal text-slate-600">
-          every reading from the test start, t = {t(view.window.fromSeconds)} – {t(view.window.toSeconds)}
+          t = {t(view.window.fromSeconds)} – {t(view.window.toSeconds)}
         </span>
       </Row>
       <Row term="Measured H0">{formatLengthIn(Math.abs(view.h0M), units.length)}</Row>
       <CasingRow view={view} units={units} />
     </dl>
+    </div>
   );
 }

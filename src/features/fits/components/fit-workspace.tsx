@@ -356,8 +356,9 @@ export function FitWorkspace({
       Stored result, computed by the server on all {reduced.readings.toLocaleString()} readings.
     </p>
   ) : (
-    <p className="text-xs text-slate-600">
+    <p className="text-xs text-slate-600" data-preview-ms={preview?.kind === 'high-k' ? preview.milliseconds.toFixed(1) : undefined}>
       Preview computed in your browser
+      {preview?.kind === 'high-k' ? ` (the high-K fit took ${Math.max(1, Math.round(preview.milliseconds))} ms)` : ''}
       {reduced.decimated
         ? ` on ${reduced.elapsedSeconds.length.toLocaleString()} of ${reduced.readings.toLocaleString()} readings; the saved result is computed on all readings.`
         : ` on all ${reduced.readings.toLocaleString()} readings.`}

@@ -77,7 +77,7 @@ function FitsTable({ site, wellId, kUnit, labels }: { site: Site; wellId: string
         {fits.map((f) => (
           <tr key={f.id}>
             <Td label="Record">{labels.get(f.recordId) ?? 'Record'}</Td>
-            <Td label="Method">{FIT_METHODS.find((m) => m.id === f.method)?.label ?? f.method}</Td>
+            <Td label="Method">{f.model === 'high-k' ? 'High-K ' : ''}{FIT_METHODS.find((m) => m.id === f.method)?.label ?? f.method}</Td>
             <Td label="Status">
               <span className="inline-flex flex-wrap items-center gap-1.5">
                 <FitStatusBadge status={f.status} superseded={f.supersededAt !== null} />
