@@ -331,5 +331,10 @@ export const previewSchema = z.object({
   suggestionCode: z.string().nullable().optional(),
   /** Where the test may start (s after the first reading), when it could not be found: for the user to choose from. */
   testStartCandidates: z.array(z.number()).optional(),
+  /** The record as read (before reduction), decimated: for the preview's curve with the start marked. */
+  curve: z
+    .object({ secondsAfterFirst: z.array(z.number()), value: z.array(z.number()), unit: z.enum(['m', 'Pa']), readings: z.number().int() })
+    .nullable()
+    .optional(),
 });
 export type Preview = z.infer<typeof previewSchema>;

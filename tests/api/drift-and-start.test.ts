@@ -89,6 +89,11 @@ describe('a test start that cannot be found', () => {
     expect(r.body.suggestionCode).toBe('TEST_START_NOT_FOUND');
     expect(r.body.testStartCandidates).toContain(20);
     expect(r.body.testStartCandidates.some((x: number) => x === 450 || x === 451)).toBe(true);
+    // The curve the candidates are drawn on: the record as read (600 readings, 400 points kept by LTTB, the glitch among them).
+    expect(r.body.curve).toMatchObject({ unit: 'm', readings: 600 });
+    expect(r.body.curve.secondsAfterFirst).toHaveLength(400);
+    expect(r.body.curve.value).toHaveLength(400);
+    expect(r.body.curve.value[r.body.curve.secondsAfterFirst.indexOf(450)]).toBeCloseTo(2.1, 6);
   });
 
   it('asks for the static level of a logger started after the test start', async () => {

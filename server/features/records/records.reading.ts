@@ -8,6 +8,7 @@ import { isPressureUnit, pascalsPer, pressureToWaterHeadM, STANDARD_GRAVITY, typ
 import { parseClockDuration, parseElapsedText, timeToSi } from '@shared/units/time';
 import { clockTimeToEpochSeconds } from '@shared/units/timestamp';
 import { volumeToSi } from '@shared/units/volume';
+import { lttbIndexes } from './lttb';
 
 /** Everything an import produces before it is stored: the reduction and what to keep about it. */
 export interface ReadRecord {
@@ -171,6 +172,30 @@ export function readLogger(input: LoggerInput): ReadRecord {
     sampleCount: parsed.timeSeconds.length,
     testDate: settings.testDate ?? (parsed.clock === 'epoch' ? dateInZone(reduced.testStartSeconds, zone) : null),
     slugVolumeM3: settings.slugVolume ? volumeToSi(settings.slugVolume.value, settings.slugVolume.unit) : null,
+  };
+}
+
+/** Points of the preview's curve: enough to see a step and the recovery, few enough to send at each change. */
+export const PREVIEW_CURVE_POINTS = 400;
+
+/**
+ * The logger record as read, before any reduction, for the preview's curve: seconds after the
+ * first reading and the value in SI for the reference (m, or Pa for absolute), LTTB-decimated so
+ * the step and the recovery keep their shape. Read even where the test start cannot be found, so
+ * the candidates can be shown on it.
+ */
+export function loggerCurve(input: LoggerInput): { secondsAfterFirst: number[]; value: number[]; unit: 'm' | 'Pa'; readings: number } {
+  const { settings } = input;
+  const parsed = readFile(input.file, settings.layout, settings.mapping, 'file', 'settings.mapping', input.sampled?.file);
+  const value = valuesToSi(parsed.value, settings.valueUnit, settings.reference, settings.waterDensityKgM3, 'settings.valueUnit');
+  const n = parsed.timeSeconds.length;
+  const keep = lttbIndexes(parsed.timeSeconds, value, n, Math.min(n, PREVIEW_CURVE_POINTS));
+  const first = parsed.timeSeconds[0];
+  return {
+    secondsAfterFirst: Array.from(keep, (i) => parsed.timeSeconds[i] - first),
+    value: Array.from(keep, (i) => value[i]),
+    unit: settings.reference === 'absolute' ? 'Pa' : 'm',
+    readings: n,
   };
 }
 

@@ -27,7 +27,7 @@ import { lttbIndexes } from './lttb';
 import { RecordFile } from './record-file.entity';
 import { RecordSeries } from './record-series.entity';
 import { RecordEntity } from './record.entity';
-import { dateInZone, readLogger, readTape, tapeCsv, type ReadRecord } from './records.reading';
+import { dateInZone, loggerCurve, readLogger, readTape, tapeCsv, type ReadRecord } from './records.reading';
 
 export interface UploadedFile {
   originalname: string;
@@ -428,6 +428,7 @@ export function createRecordsService({ ds }: { ds: DataSource }) {
     let suggestionProblem: string | null = null;
     let suggestionCode: string | null = null;
     let testStartCandidates: number[] = [];
+    let curve: Preview['curve'] = null;
     const reference = choice.reference ?? main.preview.reference;
     const valueUnit = choice.valueUnit ?? main.preview.valueUnit;
     if (!main.preview.mapping) suggestionProblem = 'Choose the time and value columns first.';
@@ -462,6 +463,11 @@ export function createRecordsService({ ds }: { ds: DataSource }) {
       }
       if (settings) {
         try {
+          curve = loggerCurve({ file: files.file.buffer, settings, sampled: { file: sampled.has('file') } });
+        } catch (e) {
+          if (!(e instanceof EngineInputError)) throw e;
+        }
+        try {
           const read = readLogger({
             file: files.file.buffer,
             barometric: reference === 'absolute' ? files.barometric?.buffer : undefined,
@@ -488,7 +494,7 @@ export function createRecordsService({ ds }: { ds: DataSource }) {
         }
       }
     }
-    return { file: main.preview, barometric: baro?.preview ?? null, suggestion, suggestionProblem, suggestionCode, testStartCandidates };
+    return { file: main.preview, barometric: baro?.preview ?? null, suggestion, suggestionProblem, suggestionCode, testStartCandidates, curve };
   }
 
   async function series(recordId: string, points: number, scale: 'log' | 'linear' = 'log'): Promise<Series> {

@@ -23,6 +23,7 @@ import { describeError } from '@/lib/errors';
 import { previewLoggerFiles, uploadLoggerRecord } from '../api';
 import { formatBytes, formatCount, formatDuration } from '../format';
 import { FileLayoutFields, MappingFields, PreviewTable, type Mapping } from './file-layout-fields';
+import { PreviewCurve, type CurveMarker } from './preview-curve';
 
 /** Short enough for a select on a phone. */
 const REFERENCE_SHORT: Record<ReferenceMode, string> = {
@@ -106,7 +107,7 @@ function Preamble({ lines, first }: { lines: string[]; first: number }) {
 }
 
 const TEST_START_HELP =
-  'Seconds after the first reading, or as written in the field: a time of day (14:32:05) for a record with dates and times, an elapsed time (1:30, 90 s) otherwise. Suggested from the data: the largest step between readings.';
+  'Seconds after the first reading, or as written in the field: a time of day (14:32:05) for a record with dates and times, an elapsed time (1:30, 90 s) otherwise. Suggested from the shape of the record: where the level leaves its pre-test level.';
 /** A level in metres of water in the chosen unit: a length, or the water's pressure ρ g h. */
 function levelFromSi(m: number, unit: string, densityKgM3: number): number {
   return isPressureUnit(unit) ? pressureFromSi(m * densityKgM3 * STANDARD_GRAVITY, unit, densityKgM3) : lengthFromSi(m, unit as LengthUnit);
@@ -422,6 +423,7 @@ export function LoggerUploadForm({
             <h3 id={`${id}-test`} className="text-sm font-semibold text-slate-900">
               {reference === 'absolute' ? '4.' : '3.'} The test
             </h3>
+            {preview.curve ? <PreviewCurve curve={preview.curve} reference={reference} markers={startMarkers(preview, testStart, Boolean(edited.testStart))} /> : null}
             {suggestion ? (
               <p className="text-sm text-slate-700" data-testid="suggestion">
                 Detected from the data, not entered: the test starts {formatDuration(suggestion.testStartSeconds)} after the first reading
@@ -567,4 +569,12 @@ export function LoggerUploadForm({
       ) : null}
     </div>
   );
+}
+
+/** The starts drawn on the preview's curve: the one the user typed (in seconds), else the detected one, else the candidates. */
+function startMarkers(preview: Preview, testStart: string, typedByUser: boolean): CurveMarker[] {
+  const typed = Number(testStart.trim().replace(',', '.'));
+  if (typedByUser && testStart.trim() !== '' && Number.isFinite(typed)) return [{ seconds: typed, label: 'entered start', kind: 'entered' }];
+  if (preview.suggestion) return [{ seconds: preview.suggestion.testStartSeconds, label: 'detected start', kind: 'detected' }];
+  return (preview.testStartCandidates ?? []).map((c, i) => ({ seconds: c, label: `candidate ${i + 1}`, kind: 'candidate' }));
 }
