@@ -143,4 +143,30 @@ describe('records as they come from the field', () => {
     await page.locator('[data-testid="preview-curve"] [data-marker="entered"]').waitFor();
     expect(Number(await page.getByLabel(/^Test start/).inputValue())).toBeGreaterThan(0);
   }, 120_000);
+
+  it('takes the static level in the logger’s pressure unit and the test start as the clock time the crew wrote down', async () => {
+    const { file } = loggerFile({ name: 'crew-notes.csv', kMetersPerSecond: 4e-5, preTestSeconds: 60, seed: 15 });
+    const page = await e2e.newPage({ width: 1280, height: 900 });
+    await e2e.signIn(page, demoEmail('Analyst'));
+    await openUpload(page, file);
+    await page.getByTestId('suggestion').waitFor();
+    // 3.2 m of water above the sensor is 31.38 kPa (ρ = 1000 kg/m³, g = 9.80665 m/s², common practice).
+    await page.locator('select[id$="-static-unit"]').selectOption('kPa');
+    await page.getByLabel('Static level, head above the sensor').fill('31.38');
+    // The crew noted the slug pulled at 09:01:00 on the logger's clock (UTC), 60 s after its first reading.
+    await page.getByLabel(/^Test start/).fill('09:01:00');
+    await page.getByText(/the start you entered \(09:01:00\) is placed on the record’s clock/).waitFor();
+    expect(await page.locator('[data-testid="preview-curve"] [data-marker="detected"]').count()).toBe(0);
+    await e2e.shot(page, 'field-records-crew-units');
+    await page.getByRole('button', { name: 'Upload and save the record' }).click();
+    await page.waitForURL(/\/sites\/[^/]+\/records\/[^/]+$/);
+    const recordId = page.url().split('/').pop()!;
+    const api = await e2e.ts.as(demoEmail('Analyst'));
+    const record = (await api.get(`/api/records/${recordId}`).expect(200)).body;
+    expect(record.staticSource).toBe('entered');
+    expect(record.staticLevelM).toBeCloseTo(31.38e3 / (1000 * 9.80665), 6);
+    expect(record.testStartSource).toBe('entered');
+    expect(record.testStartSeconds).toBeCloseTo(60, 6);
+    expect(Math.abs(record.h0M) / 0.6).toBeCloseTo(1, 1);
+  }, 120_000);
 });

@@ -423,7 +423,7 @@ export function LoggerUploadForm({
             <h3 id={`${id}-test`} className="text-sm font-semibold text-slate-900">
               {reference === 'absolute' ? '4.' : '3.'} The test
             </h3>
-            {preview.curve ? <PreviewCurve curve={preview.curve} reference={reference} markers={startMarkers(preview, testStart, Boolean(edited.testStart))} /> : null}
+            {preview.curve ? <PreviewCurve curve={preview.curve} reference={reference} markers={startMarkers(preview, testStart, Boolean(edited.testStart))} typedStart={edited.testStart && !Number.isFinite(Number(testStart.trim().replace(',', '.'))) ? testStart.trim() : null} /> : null}
             {suggestion ? (
               <p className="text-sm text-slate-700" data-testid="suggestion">
                 Detected from the data, not entered: the test starts {formatDuration(suggestion.testStartSeconds)} after the first reading
@@ -574,7 +574,7 @@ export function LoggerUploadForm({
 /** The starts drawn on the preview's curve: the one the user typed (in seconds), else the detected one, else the candidates. */
 function startMarkers(preview: Preview, testStart: string, typedByUser: boolean): CurveMarker[] {
   const typed = Number(testStart.trim().replace(',', '.'));
-  if (typedByUser && testStart.trim() !== '' && Number.isFinite(typed)) return [{ seconds: typed, label: 'entered start', kind: 'entered' }];
+  if (typedByUser && testStart.trim() !== '') return Number.isFinite(typed) ? [{ seconds: typed, label: 'entered start', kind: 'entered' }] : [];
   if (preview.suggestion) return [{ seconds: preview.suggestion.testStartSeconds, label: 'detected start', kind: 'detected' }];
   return (preview.testStartCandidates ?? []).map((c, i) => ({ seconds: c, label: `candidate ${i + 1}`, kind: 'candidate' }));
 }

@@ -24,7 +24,18 @@ export function curveAxis(reference: 'depth' | 'vented' | 'absolute', unit: 'm' 
  * The logger record as read, before any reduction, with the detected test start or the candidate
  * starts marked on it: where the start could not be found, the user sees where it might be.
  */
-export function PreviewCurve({ curve, reference, markers }: { curve: NonNullable<Preview['curve']>; reference: 'depth' | 'vented' | 'absolute'; markers: readonly CurveMarker[] }) {
+export function PreviewCurve({
+  curve,
+  reference,
+  markers,
+  typedStart = null,
+}: {
+  curve: NonNullable<Preview['curve']>;
+  reference: 'depth' | 'vented' | 'absolute';
+  markers: readonly CurveMarker[];
+  /** A start typed as text (a time of day, 1:30): placed on the record's clock when it is read, not drawn here. */
+  typedStart?: string | null;
+}) {
   const titleId = useId();
   const axis = curveAxis(reference, curve.unit);
   const last = curve.secondsAfterFirst[curve.secondsAfterFirst.length - 1] ?? 1;
@@ -51,7 +62,7 @@ export function PreviewCurve({ curve, reference, markers }: { curve: NonNullable
     <figure aria-labelledby={titleId} className="space-y-1" data-testid="preview-curve">
       <figcaption id={titleId} className="text-xs text-slate-600">
         The record as read ({curve.readings.toLocaleString('en')} readings{curve.readings > curve.value.length ? `, ${curve.value.length} drawn` : ''}),
-        {markers.length ? ' with the test start marked' : ' before the test start is set'}.
+        {markers.length ? ' with the test start marked' : typedStart ? ` — the start you entered (${typedStart}) is placed on the record’s clock when it is read` : ' before the test start is set'}.
       </figcaption>
       <svg viewBox={`0 0 ${WIDTH} ${HEIGHT}`} className="h-auto w-full max-w-2xl" role="img" aria-label={`${axis.label} against time`}>
         {y.ticks(5).map((v) => (
