@@ -2,10 +2,10 @@ import { intakeFlag } from './analyze';
 import { EngineInputError } from './errors';
 import { crossingSeconds } from './fitting';
 import type { QcFlag } from './flags';
-import type { WellGeometry } from './geometry';
+import { casingRadiusForFlow, type WellGeometry } from './geometry';
 import { fitHighKReduced, HIGH_K_REFERENCES, MIN_HIGH_K_READINGS, modelHead, type DampingRegime, type HighKFit, type HighKVariant } from './high-k';
 import { findMaterial, type MaterialId } from './materials';
-import { driftFlag, kFlags, oscillationFlag, shapeFactorFlags } from './qc';
+import { driftFlag, h0Flag, kFlags, oscillationFlag, shapeFactorFlags } from './qc';
 import type { ReducedRecord } from './reduction';
 
 /*
@@ -25,6 +25,8 @@ export interface HighKSettings {
   /** Default true. */
   fitEffectiveLength?: boolean;
   material?: MaterialId;
+  /** The slug's volume, m³, when known: the measured H0 is checked against it as for a straight line. */
+  slugVolumeM3?: number;
 }
 
 export interface HighKAnalysis {
@@ -90,6 +92,10 @@ export function analyzeHighKReduced(reduced: ReducedRecord, settings: HighKSetti
   flags.push(...shapeFactorFlags(fit.shape));
   const intake = intakeFlag(settings.variant, settings.geometry, fit.equivalentT0Seconds, fit.kMetersPerSecond);
   if (intake) flags.push(intake);
+  if (settings.slugVolumeM3 !== undefined) {
+    const h0 = h0Flag(reduced, casingRadiusForFlow(settings.geometry).radiusM, settings.slugVolumeM3);
+    if (h0) flags.push(h0);
+  }
   return { fit, flags };
 }
 

@@ -1,4 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { RecordEntity } from '../../server/features/records/record.entity';
 import { Well } from '../../server/features/wells/well.entity';
 import { insertSyntheticRecord } from '../support/synthetic-record';
 import { demoEmail, startTestServer, type ApiClient, type TestServer } from '../support/test-server';
@@ -104,5 +105,18 @@ describe('the high-K model through the API', () => {
     expect(changes[0].model).toEqual({ from: 'line', to: 'high-k' });
     expect(changes[1]['highK.effectiveLengthM']).toEqual({ from: null, to: 2.5 });
     expect(changes[1]['highK.fitEffectiveLength']).toEqual({ from: null, to: false });
+  });
+
+  it('checks the measured H0 against the slug volume as for a straight line', async () => {
+    const { recordId } = await highKRecord();
+    const record = await ts.ds.getRepository(RecordEntity).findOneByOrFail({ id: recordId });
+    const well = await ts.ds.getRepository(Well).findOneByOrFail({ id: wellId });
+    // A slug that would raise the level 3× the H0 the record shows (expected H0 = V / (π rc²), Butler, McElwee & Liu 1996).
+    const slugVolumeM3 = 3 * Math.abs(record.h0M) * Math.PI * well.casingRadiusM ** 2;
+    await ts.ds.getRepository(RecordEntity).update({ id: recordId }, { slugVolumeM3 });
+    const fit = (await analyst.post(`/api/records/${recordId}/fits`, { method: 'hvorslev', model: 'high-k' }).expect(201)).body;
+    const h0 = fit.flags.find((f: { code: string }) => f.code === 'h0-mismatch');
+    expect(h0, JSON.stringify(fit.flags.map((f: { code: string }) => f.code))).toBeDefined();
+    expect(h0.values.ratio).toBeCloseTo(1 / 3, 2);
   });
 });

@@ -110,6 +110,7 @@ function compute(reduced: ReducedRecord, body: ComputeBody, geometry: FitGeometr
           effectiveLengthM: body.options.highK?.effectiveLengthM,
           fitEffectiveLength: body.options.highK?.fitEffectiveLength ?? true,
           material: body.options.material as never,
+          ...(slugVolumeM3 !== null ? { slugVolumeM3 } : {}),
         }),
       };
     }

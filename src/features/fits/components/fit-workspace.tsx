@@ -197,9 +197,10 @@ export function FitWorkspace({
             effectiveLengthM: effectiveLength.valueM,
             fitEffectiveLength: inputs.fitEffectiveLength,
             material: inputs.material || undefined,
+            slugVolumeM3: reduced.slugVolumeM3 ?? undefined,
           }
         : null,
-    [parsed.geometry, effectiveLength, inputs.method, inputs.fitEffectiveLength, inputs.material],
+    [parsed.geometry, effectiveLength, inputs.method, inputs.fitEffectiveLength, inputs.material, reduced.slugVolumeM3],
   );
   // L_e from the well's geometry, for the field's placeholder (null when the well cannot give it).
   const effectiveLengthEstimateM = useMemo(() => {
