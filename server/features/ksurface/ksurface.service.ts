@@ -1,3 +1,4 @@
+import { createHash } from 'node:crypto';
 import { IsNull } from 'typeorm';
 import type { z } from 'zod';
 import { CAUTIONS } from '@shared/cautions';
@@ -9,6 +10,7 @@ import type { CrossValidation, KAt, KSurface, kSurfaceQuerySchema } from '@share
 import type { AppContext } from '../../context';
 import { badRequest, notFound } from '../../lib/errors';
 import { FitEntity } from '../fits/fit.entity';
+import { MapVersion } from '../map/map-version.entity';
 import { Site } from '../sites/site.entity';
 import { Well } from '../wells/well.entity';
 import { gridCrsFor, type GridCrs } from './grid-crs';
@@ -21,6 +23,9 @@ export type SurfaceQuery = z.output<typeof kSurfaceQuerySchema>;
 export const MAX_SURFACE_CELLS = 1_000_000;
 export const FEW_WELLS = 5;
 const NEXT_TEST_SPOTS = 5;
+/** Computed surfaces kept per service: at most this many, and this many base64 characters of cells in all (32 MB). */
+const MAX_CACHED_SURFACES = 64;
+const MAX_CACHED_SURFACE_CHARS = 32 * 1024 * 1024;
 
 export interface SurfaceWell {
   well: Well;
@@ -53,12 +58,18 @@ function matchesFilter(w: Well, q: SurfaceQuery): boolean {
 export function createKSurfaceService(ctx: AppContext) {
   const { ds } = ctx;
 
-  /** The wells with a Well K (the geometric mean of Checked, not superseded fits: the same rule as wellKFor), filtered. */
-  async function inputs(siteId: string, q: SurfaceQuery): Promise<SurfaceInputs> {
+  /** The site and the query's outline (refused when it is not this site's): what a surface is laid out on. */
+  async function siteAndOutline(siteId: string, q: SurfaceQuery): Promise<{ site: Site; outline: OutlineEntity | null }> {
     const site = await ds.getRepository(Site).findOneBy({ id: siteId });
     if (!site) throw notFound('The site');
     const outline = q.outlineId ? await ds.getRepository(OutlineEntity).findOneBy({ id: q.outlineId, siteId }) : null;
     if (q.outlineId && !outline) throw badRequest('No such outline on this site', { outlineId: 'No such outline on this site' });
+    return { site, outline };
+  }
+
+  /** The wells with a Well K (the geometric mean of Checked, not superseded fits: the same rule as wellKFor), filtered. */
+  async function inputs(siteId: string, q: SurfaceQuery, known?: { site: Site; outline: OutlineEntity | null }): Promise<SurfaceInputs> {
+    const { site, outline } = known ?? (await siteAndOutline(siteId, q));
     const fits = await ds.getRepository(FitEntity).find({
       where: { siteId, status: 'checked', supersededAt: IsNull() },
       select: { id: true, wellId: true, kMetersPerSecond: true },
@@ -116,8 +127,52 @@ export function createKSurfaceService(ctx: AppContext) {
     outlineId: inp.outline?.id ?? null,
   });
 
+  /*
+   * Surfaces once computed are kept (a viewer link's frozen surface is asked for by every visitor),
+   * under a key of everything they are made of: the settings, the site's system, the outline's
+   * geometry itself (its updatedAt has whole seconds) and the site's map version, which SQLite's
+   * triggers bump on every write to its wells or fits (decision 008) — so Well K, positions,
+   * units and screens are covered whatever code path wrote them.
+   */
+  const cache = new Map<string, KSurface>();
+  let cachedChars = 0;
+  function keep(key: string, s: KSurface): void {
+    // Two requests that missed at once both compute; the second replaces the first.
+    const before = cache.get(key);
+    if (before) cachedChars -= before.log10K.length;
+    cache.delete(key);
+    cache.set(key, s);
+    cachedChars += s.log10K.length;
+    for (const [k, old] of cache) {
+      if (cache.size <= MAX_CACHED_SURFACES && cachedChars <= MAX_CACHED_SURFACE_CHARS) break;
+      if (k === key) continue;
+      cache.delete(k);
+      cachedChars -= old.log10K.length;
+    }
+  }
+
+  /** The surface for these settings, from the cache while nothing it is made of has changed. Callers must not change it. */
   async function surface(siteId: string, q: SurfaceQuery): Promise<KSurface> {
-    const inp = await inputs(siteId, q);
+    const known = await siteAndOutline(siteId, q);
+    // Read before the wells and fits: a write committed after this read has bumped the version, so
+    // an answer is never kept under a version newer than its data.
+    const version = (await ds.getRepository(MapVersion).findOneBy({ siteId }))?.version ?? 0;
+    const geometry = known.outline ? createHash('sha256').update(JSON.stringify(known.outline.geometry)).digest('base64') : '';
+    const settingsKey = Object.entries(q).filter(([, v]) => v !== undefined).sort(([a], [b]) => (a < b ? -1 : 1));
+    const key = JSON.stringify([siteId, version, known.site.epsgCode, geometry, settingsKey]);
+    const hit = cache.get(key);
+    if (hit) {
+      // Most recently used last: the first entries are the ones to drop.
+      cache.delete(key);
+      cache.set(key, hit);
+      return hit;
+    }
+    const s = compute(await inputs(siteId, q, known), q);
+    keep(key, s);
+    return s;
+  }
+
+  function compute(inp: SurfaceInputs, q: SurfaceQuery): KSurface {
     enoughWells(inp);
     const { grid: g, mask } = grid(inp, q.cellSizeM);
     const values = idwGrid(inp.points, g, inp.options, mask ?? undefined);
