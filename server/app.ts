@@ -32,7 +32,7 @@ import { membersRoutes } from './features/members/members.router';
 import { recordsRoutes } from './features/records/records.router';
 import { sitesRoutes } from './features/sites/sites.router';
 import { adminRoutes } from './features/users/users.router';
-import { mountViewPage, viewerLinksRoutes } from './features/viewer-links/viewer-links.router';
+import { mountViewPage, viewerLinksRoutes, viewRoutes } from './features/viewer-links/viewer-links.router';
 import { wellsRoutes } from './features/wells/wells.router';
 
 export const VERSION = '0.1.0';
@@ -98,6 +98,15 @@ export function createApp({ config, ds, mailer, mailOptions, log = (m, e) => con
     }),
   );
 
+  // A viewer link's page and read-only API: no account, so they come before the session middleware
+  // (no session is read, made or touched for a viewer).
+  const dist = path.resolve(config.CLIENT_DIST);
+  const viewMounted: MountedRoute[] = [];
+  const views = express.Router();
+  mountRoutes(views, ctx, viewRoutes(ctx), viewMounted);
+  app.use(views);
+  mountViewPage(app, ctx, path.join(dist, 'index.html'));
+
   const store = new SqliteSessionStore(ds, config.SESSION_IDLE_SECONDS * 1000);
   const pp = createPassport(ctx);
 
@@ -156,7 +165,7 @@ export function createApp({ config, ds, mailer, mailOptions, log = (m, e) => con
     ...basemapApiRoutes(ctx, basemaps),
     ...adminRoutes(ctx, store, auth.sendReset, mail),
   ];
-  const routes: MountedRoute[] = [...tileMounted];
+  const routes: MountedRoute[] = [...tileMounted, ...viewMounted];
   const api = express.Router();
   mountRoutes(api, ctx, defs, routes);
   const openapi = buildOpenApi(routes, VERSION);
@@ -165,9 +174,6 @@ export function createApp({ config, ds, mailer, mailOptions, log = (m, e) => con
     throw new AppError('NOT_FOUND', `No API route ${req.method} ${req.originalUrl}`, 404);
   });
 
-  const dist = path.resolve(config.CLIENT_DIST);
-  // Before the static files and the page fallback: a viewer link's page answers 404 for a dead token.
-  mountViewPage(app, ctx, path.join(dist, 'index.html'));
   if (fs.existsSync(path.join(dist, 'index.html'))) {
     app.use(express.static(dist, { index: false, maxAge: '1h', setHeaders: (res, file) => {
       if (file.includes(`${path.sep}assets${path.sep}`)) res.setHeader('Cache-Control', 'public, max-age=31536000, immutable');

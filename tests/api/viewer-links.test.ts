@@ -242,6 +242,20 @@ describe('viewer links: what a token opens', () => {
   });
 });
 
+describe('viewer links: no session for a viewer', () => {
+  it('reads and writes no session on the view routes and the page, even with a signed-in cookie', async () => {
+    const { token } = await makeLink({ layers: ALL });
+    // The Lead's own agent carries a session cookie, which a rolling session would re-send on any route under it.
+    expect((await lead.get(`/api/sites/${ts.demoSiteId}`)).headers['set-cookie']).toBeDefined();
+    for (const p of VIEW_PATHS) {
+      const r = await lead.get(`/api/view/${token}${p}`);
+      expect(r.status, p).toBe(200);
+      expect(r.headers['set-cookie'], p).toBeUndefined();
+    }
+    expect((await lead.get(`/view/${token}`)).headers['set-cookie']).toBeUndefined();
+  });
+});
+
 describe('viewer links: the page', () => {
   it('serves the page at /view/:token with 200 for a working link, no referrer and no-store, without counting a view', async () => {
     const { link, token } = await makeLink();

@@ -73,10 +73,9 @@ export function mountViewPage(router: Router, ctx: AppContext, indexHtml: string
   });
 }
 
+/** The Lead's routes: make, list, revoke and e-mail a site's viewer links (signed in, after the session). */
 export function viewerLinksRoutes(ctx: AppContext): RouteDef[] {
   const svc = createViewerLinksService(ctx);
-  const before = viewGuards(ctx.config.VIEW_REQUESTS_PER_MINUTE);
-  const token = (req: { params: Record<string, unknown> }) => String(req.params.token);
   return [
     {
       method: 'get', path: '/api/sites/:siteId/viewer-links', tag: 'Viewer links', summary: 'The site’s viewer links, newest first (never their tokens)',
@@ -109,6 +108,18 @@ export function viewerLinksRoutes(ctx: AppContext): RouteDef[] {
       },
       handler: (req) => svc.email(String(req.params.linkId), req.user!, req.body, { clientAddress: req.ip ?? null }),
     },
+  ];
+}
+
+/**
+ * The token's read-only routes (an allow-list: nothing else opens with a token). Mounted before the
+ * session middleware: a viewer has no account, so no session is read or made for these requests.
+ */
+export function viewRoutes(ctx: AppContext): RouteDef[] {
+  const svc = createViewerLinksService(ctx);
+  const before = viewGuards(ctx.config.VIEW_REQUESTS_PER_MINUTE);
+  const token = (req: { params: Record<string, unknown> }) => String(req.params.token);
+  return [
     {
       method: 'get', path: '/api/view/:token', tag: 'Viewer links', summary: 'What a viewer link shows: site name, system, units, basemap, layers, cautions, expiry (no sign-in; counts a view)',
       params: tokenParams, before,
