@@ -35,9 +35,11 @@ beforeAll(async () => {
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'kfield-crash-net-'));
   const file = path.join(dir, 'server.mts');
   fs.writeFileSync(file, script);
-  child = spawn(path.join(root, 'node_modules/.bin/tsx'), ['--tsconfig', 'tsconfig.server.json', file], {
+  // One process (node with tsx's loader), not the tsx command, which runs the script in a child of
+  // its own: killing the command left that child serving after the tests.
+  child = spawn(process.execPath, ['--import', 'tsx', file], {
     cwd: root,
-    env: { ...process.env, NODE_ENV: 'test' },
+    env: { ...process.env, NODE_ENV: 'test', TSX_TSCONFIG_PATH: 'tsconfig.server.json' },
     stdio: ['ignore', 'pipe', 'pipe'],
   });
   child.stderr!.on('data', (d) => (stderr += d.toString()));
