@@ -24,6 +24,7 @@ import type { Mailer } from './features/mail/mailer';
 import { createMailWorker, type MailWorker, type MailWorkerOptions } from './features/mail/outbox';
 import { exportsRoutes } from './features/exports/exports.router';
 import { fitsRoutes } from './features/fits/fits.router';
+import { reportsRoutes } from './features/reports/reports.router';
 import { mapRoutes } from './features/map/map.router';
 import { kSurfaceRoutes } from './features/ksurface/ksurface.router';
 import { outlinesRoutes } from './features/ksurface/outlines.router';
@@ -161,6 +162,7 @@ export function createApp({ config, ds, mailer, mailOptions, log = (m, e) => con
     ...kSurfaceRoutes(ctx),
     ...sketchesRoutes(ctx),
     ...exportsRoutes(ctx),
+    ...reportsRoutes(ctx),
     ...viewerLinksRoutes(ctx),
     ...basemapApiRoutes(ctx, basemaps),
     ...adminRoutes(ctx, store, auth.sendReset, mail),

@@ -149,6 +149,8 @@ export const policyTable: Record<string, PolicyRule> = {
   'GET /api/sites/:siteId/exports/k-surface.tif': site(anyRole),
   'GET /api/sites/:siteId/exports/k-surface-isobands.geojson': site(anyRole),
   'GET /api/sites/:siteId/exports/fits.csv': site(anyRole),
+  'GET /api/sites/:siteId/reports/site.pdf': site(anyRole),
+  'GET /api/fits/:fitId/report.pdf': site(anyRole, byFit),
 
   'GET /api/sites/:siteId/viewer-links': site(['Lead']),
   'POST /api/sites/:siteId/viewer-links': site(['Lead']),

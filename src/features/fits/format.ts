@@ -1,27 +1,7 @@
 import { K_UNITS, kFromSi, type KUnit } from '@shared/units/conductivity';
 import { lengthFromSi, type LengthUnit } from '@shared/units/length';
 import type { DisplayUnits } from '@shared/schemas/sites';
-
-const SUPERSCRIPT: Record<string, string> = {
-  '-': '⁻',
-  '0': '⁰',
-  '1': '¹',
-  '2': '²',
-  '3': '³',
-  '4': '⁴',
-  '5': '⁵',
-  '6': '⁶',
-  '7': '⁷',
-  '8': '⁸',
-  '9': '⁹',
-};
-
-export function superscript(n: number): string {
-  return String(n)
-    .split('')
-    .map((c) => SUPERSCRIPT[c] ?? c)
-    .join('');
-}
+import { superscript } from '@shared/plot/semilog';
 
 /** `x` with `digits` significant digits: plain between 0.01 and 10 000, else "m × 10ⁿ". */
 export function formatQuantity(x: number, digits = 3): string {

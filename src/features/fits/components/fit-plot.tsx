@@ -1,5 +1,6 @@
 import { useCallback, useEffect, useId, useMemo, useRef, useState, type KeyboardEvent, type PointerEvent as ReactPointerEvent } from 'react';
-import { scaleLinear, scaleLog } from 'd3-scale';
+import { scaleLinear } from 'd3-scale';
+import { headScale, timeScale, timeTicks } from '@shared/plot/semilog';
 import { RECOMMENDED_HEAD_RANGES, type FitMethod } from '@shared/hydraulics/fitting';
 import { Button } from '@/components/ui/button';
 import { cn } from '@/lib/cn';
@@ -173,11 +174,8 @@ export function FitPlot({
     return [lo - 0.02, hi + 0.02];
   }, [linear, normalizedHead, drawn, model]);
   const per = secondsPer(timeUnit);
-  const x = useMemo(() => scaleLinear().domain(view).range([MARGIN.left, MARGIN.left + plotWidth]), [view, plotWidth]);
-  const y = useMemo<(v: number) => number>(
-    () => (linear ? scaleLinear() : scaleLog()).domain([yLo, yHi]).range([MARGIN.top + MAIN_HEIGHT, MARGIN.top]),
-    [linear, yLo, yHi],
-  );
+  const x = useMemo(() => timeScale(view, [MARGIN.left, MARGIN.left + plotWidth]), [view, plotWidth]);
+  const y = useMemo<(v: number) => number>(() => headScale(linear, [yLo, yHi], [MARGIN.top + MAIN_HEIGHT, MARGIN.top]), [linear, yLo, yHi]);
   const stripTop = MARGIN.top + MAIN_HEIGHT + X_AXIS_HEIGHT + STRIP_GAP;
   const residualMax = useMemo(() => {
     let m = 0;
@@ -186,12 +184,7 @@ export function FitPlot({
   }, [residuals]);
   const yr = useMemo(() => scaleLinear().domain([-residualMax, residualMax]).range([stripTop + STRIP_HEIGHT, stripTop]), [residualMax, stripTop]);
 
-  const xTicks = useMemo(() => {
-    const unitScale = scaleLinear().domain([view[0] / per, view[1] / per]);
-    const ticks = unitScale.ticks(Math.max(3, Math.floor(plotWidth / 90)));
-    const format = unitScale.tickFormat(Math.max(3, Math.floor(plotWidth / 90)));
-    return ticks.map((v) => ({ seconds: v * per, label: format(v) }));
-  }, [view, per, plotWidth]);
+  const xTicks = useMemo(() => timeTicks(view, timeUnit, plotWidth), [view, timeUnit, plotWidth]);
   const yTicks = useMemo(() => {
     if (!linear) return logTicks(yLo, yHi);
     const ticks = scaleLinear().domain([yLo, yHi]).ticks(6);
