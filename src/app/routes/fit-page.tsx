@@ -1,6 +1,7 @@
 import { useSuspenseQueries, useSuspenseQuery } from '@tanstack/react-query';
 import { Link, useParams } from 'react-router-dom';
 import { Alert } from '@/components/ui/alert';
+import { buttonClasses } from '@/components/ui/button';
 import { Card, CardBody, CardHeader } from '@/components/ui/card';
 import { QueryBoundary } from '@/components/ui/error-boundary';
 import { PageHeader } from '@/components/ui/page-header';
@@ -95,6 +96,11 @@ function FitPage({ siteId, fitId }: { siteId: string; fitId: string }) {
           </Alert>
         ) : null}
       </div>
+      <p className="flex justify-end">
+        <a href={`/api/fits/${fit.id}/report.pdf`} download className={buttonClasses('secondary', 'sm')} data-testid="fit-report-pdf">
+          Download PDF
+        </a>
+      </p>
       <FitWorkspace
         key={`${fit.id}:${fit.updatedAt}`}
         site={site}

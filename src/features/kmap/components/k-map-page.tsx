@@ -33,6 +33,7 @@ import { CrossValidationPanel } from '../surface/cross-validation-panel';
 import { OutlinesPanel } from '../surface/outlines-panel';
 import { SketchPanel } from '../surface/sketch-panel';
 import { ExportMenu } from '@/components/export-menu';
+import { SiteReportButton } from '@/components/site-report-button';
 import { surfaceQueryString } from '../surface/api';
 
 const count = (n: number) => n.toLocaleString('en');
@@ -207,6 +208,7 @@ export function KMapPage({ site, wells, crsUnit, basemaps, canEdit }: Props) {
         </div>
         <div className="flex items-center gap-2">
           <ExportMenu siteId={site.id} size="sm" surfaceQuery={ws.wellsUsed >= 2 ? surfaceQueryString(ws.surfaceQuery) : null} />
+          <SiteReportButton siteId={site.id} size="sm" />
           <Button variant="secondary" size="sm" pending={exporting} onClick={() => void exportView()}>
             Export view as PNG
           </Button>
