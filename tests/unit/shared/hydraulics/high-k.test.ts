@@ -317,11 +317,8 @@ describe('fitHighK refuses bad input, naming the field', () => {
   });
 });
 
-describe('published worked example', () => {
-  // Butler (1998) and Butler, Garnett & Healey (2003) work high-K field examples, but their
-  // numbers (geometry, fitted C_D, L_e and K) cannot be recalled reliably here, so no published
-  // figures are asserted: inventing them would be worse than none. The checks above are the
-  // model's own forward solution (against RK4) and its large-C_D limit (against the Hvorslev
-  // engine). A published example should be added with its page and figure named beside it.
-  it.todo('reproduces a worked high-K example with the published numbers (source to be checked)');
-});
+// No published worked example is asserted. Butler (1998) and Butler, Garnett & Healey (2003) work
+// high-K field examples, but their numbers (geometry, fitted C_D, L_e and K) cannot be recalled
+// reliably here, and inventing them would be worse than none. The checks above are the model's own
+// forward solution (against RK4), recovery of known K, and its large-C_D limit (against the Hvorslev
+// engine). A published example belongs here with its page and figure named beside it.
